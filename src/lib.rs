@@ -1,0 +1,23 @@
+//! gibbsite: a static report on the thermodynamic consistency of a metabolic
+//! model.
+//!
+//! The pipeline runs one way (see DEVELOPERS.md):
+//! `project` (load) → [`model::Model`] → [`network::Network`] →
+//! [`analysis`] (checks) → [`report::Report`] → [`site`] (render).
+
+pub mod analysis;
+pub mod checks;
+pub mod error;
+pub mod loops;
+pub mod lp;
+pub mod model;
+pub mod network;
+pub mod project;
+pub mod report;
+pub mod site;
+pub mod slug;
+pub mod thermo;
+
+pub use error::{Diagnostic, Error, Result};
+pub use project::Project;
+pub use report::Report;

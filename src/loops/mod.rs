@@ -1,0 +1,1 @@
+//! Internal loops in the closed network.

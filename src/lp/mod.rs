@@ -1,0 +1,1 @@
+//! Linear programming: the only module that talks to an LP solver.

@@ -1,0 +1,1 @@
+//! SBML import.

@@ -1,0 +1,259 @@
+//! The single contract between analysis and every output (site, report.json,
+//! SARIF, CI summary). Plain serialisable data: no model types leak through,
+//! so templates and external tools see one stable shape.
+
+use serde::{Deserialize, Serialize};
+use std::collections::BTreeMap;
+
+pub mod json;
+
+/// Version of the `report.json` shape; bump on breaking changes.
+pub const REPORT_SCHEMA_VERSION: u32 = 1;
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Severity {
+    Error,
+    Warning,
+    Note,
+}
+
+impl Severity {
+    pub fn slug(self) -> &'static str {
+        match self {
+            Severity::Error => "error",
+            Severity::Warning => "warning",
+            Severity::Note => "note",
+        }
+    }
+}
+
+/// One problem found by a check.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Finding {
+    /// Descriptive slug of the check kind, e.g. `direction-contradiction`.
+    pub kind: String,
+    pub severity: Severity,
+    /// Ids of the reactions / metabolites / loops concerned (first = main).
+    pub subjects: Vec<String>,
+    /// Scenario id when the finding belongs to one flux scenario.
+    pub scenario: Option<String>,
+    pub message: String,
+    /// Named numbers backing the message (kJ/mol unless the name says else).
+    pub evidence: BTreeMap<String, f64>,
+}
+
+/// Verdict on whether a flux direction is thermodynamically possible.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Verdict {
+    /// Impossible for every allowed concentration even after the uncertainty allowance.
+    Contradiction,
+    /// Possible only near the concentration bounds or within the uncertainty.
+    Marginal,
+    Consistent,
+    /// No ΔG'° available.
+    NoData,
+}
+
+impl Verdict {
+    pub fn slug(self) -> &'static str {
+        match self {
+            Verdict::Contradiction => "contradiction",
+            Verdict::Marginal => "marginal",
+            Verdict::Consistent => "consistent",
+            Verdict::NoData => "no-data",
+        }
+    }
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Report {
+    pub schema_version: u32,
+    pub tool: ToolInfo,
+    pub project: ProjectInfo,
+    pub summary: Summary,
+    /// Sorted: severity, kind, first subject, scenario.
+    pub findings: Vec<Finding>,
+    pub compartments: Vec<CompartmentView>,
+    pub metabolites: Vec<MetaboliteView>,
+    pub reactions: Vec<ReactionView>,
+    pub scenarios: Vec<ScenarioView>,
+    pub notes: Vec<NoteView>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ToolInfo {
+    pub name: String,
+    pub version: String,
+    /// RFC 3339 UTC; honours SOURCE_DATE_EPOCH for reproducible builds.
+    pub generated: String,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ProjectInfo {
+    pub title: String,
+    pub model_id: String,
+    pub model_title: String,
+    pub temperature_k: f64,
+    /// Confidence level of verdicts, e.g. 0.95.
+    pub confidence: f64,
+    /// Multiplier of σ matching `confidence` (e.g. 1.96).
+    pub sigma_multiplier: f64,
+    /// Smallest driving force (kJ/mol) counted as comfortably feasible.
+    pub min_driving_force_kj: f64,
+    pub default_concentration_m: RangeView,
+    /// The standing caution printed on every report.
+    pub caution: String,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct RangeView {
+    pub min: f64,
+    pub max: f64,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Summary {
+    pub reactions: usize,
+    pub internal_reactions: usize,
+    pub metabolites: usize,
+    pub compartments: usize,
+    pub scenarios: usize,
+    pub errors: usize,
+    pub warnings: usize,
+    pub notes: usize,
+    /// Reactions with a ΔrG'° (from any origin).
+    pub reactions_with_energy: usize,
+    /// Metabolites with a ΔfG'° (from any origin).
+    pub metabolites_with_energy: usize,
+    /// Finding counts per kind slug.
+    pub by_kind: BTreeMap<String, usize>,
+    /// What was checked: (slug, one-line description).
+    pub checks: Vec<CheckInfo>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CheckInfo {
+    pub slug: String,
+    pub title: String,
+    pub description: String,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CompartmentView {
+    pub id: String,
+    pub name: String,
+    pub ph: f64,
+    pub ionic_strength_m: f64,
+    pub potential_mv: f64,
+    pub temperature_k: f64,
+    pub pmg: Option<f64>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct EnergyView {
+    pub value_kj: f64,
+    pub sigma_kj: f64,
+    pub source: String,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct MetaboliteView {
+    pub id: String,
+    /// Sanitised file stem for this metabolite's page.
+    pub slug: String,
+    pub name: String,
+    pub compartment: String,
+    pub formula: Option<String>,
+    pub charge: Option<i32>,
+    /// ΔfG'° at the compartment's conditions, when known.
+    pub dfg_prime: Option<EnergyView>,
+    /// Where `dfg_prime` came from: "model", "species", "library".
+    pub energy_origin: Option<String>,
+    pub concentration_m: RangeView,
+    /// True when the range is the project default, not the metabolite's own.
+    pub concentration_is_default: bool,
+    pub measured_m: Option<f64>,
+    /// "proton", "water" or "" for ordinary metabolites.
+    pub special: String,
+    pub xrefs: BTreeMap<String, Vec<String>>,
+    /// Ids of reactions that consume / produce it.
+    pub consumed_by: Vec<String>,
+    pub produced_by: Vec<String>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ParticipantView {
+    pub metabolite: String,
+    pub slug: String,
+    pub name: String,
+    /// Signed coefficient (negative = consumed).
+    pub coefficient: f64,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ScenarioVerdictView {
+    pub scenario: String,
+    pub flux: f64,
+    pub verdict: Verdict,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ReactionView {
+    pub id: String,
+    pub slug: String,
+    pub name: String,
+    /// Equation written with metabolite ids.
+    pub equation: String,
+    pub participants: Vec<ParticipantView>,
+    pub reversible: bool,
+    pub lower_bound: f64,
+    pub upper_bound: f64,
+    pub role: String,
+    pub group: Option<String>,
+    /// ΔrG'° with σ, when known.
+    pub drg_prime: Option<EnergyView>,
+    /// "reaction" (given for the reaction) or "formation" (Σ ν·ΔfG'°).
+    pub energy_origin: Option<String>,
+    /// K' = exp(−ΔrG'°/RT).
+    pub k_prime: Option<f64>,
+    /// ΔG' range over the allowed concentrations, kJ/mol (no σ allowance).
+    pub dg_range: Option<RangeView>,
+    /// ΔG' at measured concentrations (range bounds where unmeasured), when all are measured.
+    pub dg_measured: Option<f64>,
+    /// Verdict for the directions the bounds allow.
+    pub forward_verdict: Option<Verdict>,
+    pub backward_verdict: Option<Verdict>,
+    pub scenario_verdicts: Vec<ScenarioVerdictView>,
+    /// Metabolites whose missing data left this reaction without ΔrG'°.
+    pub missing_data: Vec<String>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ScenarioView {
+    pub id: String,
+    pub description: String,
+    pub active_reactions: usize,
+    pub contradictions: usize,
+    pub marginal: usize,
+    pub consistent: usize,
+    pub no_data: usize,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct NoteView {
+    pub slug: String,
+    pub title: String,
+    /// Markdown source; rendered by the site without raw HTML.
+    pub markdown: String,
+}
+
+impl Report {
+    pub fn count(&self, severity: Severity) -> usize {
+        self.findings
+            .iter()
+            .filter(|f| f.severity == severity)
+            .count()
+    }
+}

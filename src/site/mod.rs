@@ -1,0 +1,1 @@
+//! Rendering a Report into a static site.

@@ -1,0 +1,6 @@
+//! Thermodynamic computations: constants, reaction energies and ΔG' ranges,
+//! Alberty's Legendre transform of species data, membrane transport terms and
+//! the built-in library of sourced species data.
+
+pub mod constants;
+pub mod reaction;
