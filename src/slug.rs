@@ -47,7 +47,9 @@ mod tests {
     fn unsafe_ids_are_replaced_and_disambiguated() {
         let a = slug("../etc/passwd");
         assert!(a.starts_with("___etc_passwd-"), "{a}");
-        assert!(a.chars().all(|c| c.is_ascii_alphanumeric() || c == '_' || c == '-'));
+        assert!(a
+            .chars()
+            .all(|c| c.is_ascii_alphanumeric() || c == '_' || c == '-'));
         assert_ne!(slug("a/b"), slug("a_b"));
         assert_ne!(slug("a/b"), slug("a.b"));
         assert!(!slug("").is_empty());

@@ -1,0 +1,1 @@
+//! The analysis context shared by all checks.

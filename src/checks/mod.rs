@@ -1,0 +1,1 @@
+//! Checks: one file per check.

@@ -1,0 +1,1 @@
+//! Metabolite–reaction graph and stoichiometric matrix.

@@ -1,0 +1,1 @@
+//! Reaction energies and ΔG' ranges.
