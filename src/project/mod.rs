@@ -1,6 +1,369 @@
-//! Loading a project folder: the only code that reads user files.
+//! Loading a project: the only code that reads user files.
+//!
+//! A project is a folder with `gibbsite.yaml` (settings) naming one or more
+//! model files, optional CSV flux tables and a folder of Markdown notes. A
+//! model file (`*.yaml`) or an SBML file may also be given directly; it then
+//! runs with default settings. Nothing here writes anything.
 
+pub mod equation;
+pub mod model_file;
 pub mod sbml;
+pub mod schema;
+pub mod sourcemap;
+pub mod tables;
+pub mod units;
+pub mod yaml;
 
-/// A loaded project (placeholder until the loader lands).
-pub struct Project;
+use crate::error::{Diagnostic, Error, Result};
+use crate::model::{Model, Range, Role};
+use schema::{FileKind, RawModelFile, RawSettings};
+use sourcemap::Segment;
+use std::path::{Path, PathBuf};
+
+/// Name of the settings file inside a project folder.
+pub const SETTINGS_FILE: &str = "gibbsite.yaml";
+
+/// Default allowed concentration range when a metabolite has none:
+/// 1 µM – 10 mM (common practice in thermodynamic analyses of metabolism).
+pub const DEFAULT_CONCENTRATION: Range = Range {
+    min: 1e-6,
+    max: 1e-2,
+};
+pub const DEFAULT_CONFIDENCE: f64 = 0.95;
+/// Driving force (kJ/mol) below which a feasible step is reported as marginal.
+pub const DEFAULT_MIN_DRIVING_FORCE_KJ: f64 = 1.0;
+
+/// Settled project settings the rest of the code trusts.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Settings {
+    pub title: String,
+    pub model_files: Vec<PathBuf>,
+    pub notes_dir: Option<PathBuf>,
+    pub theme_dir: Option<PathBuf>,
+    pub confidence: f64,
+    pub default_concentration: Range,
+    pub min_driving_force_kj: f64,
+}
+
+/// A Markdown note shown in the report.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Note {
+    pub slug: String,
+    pub title: String,
+    pub markdown: String,
+}
+
+/// A loaded, validated project.
+#[derive(Debug, Clone)]
+pub struct Project {
+    pub root: PathBuf,
+    pub settings: Settings,
+    pub model: Model,
+    pub notes: Vec<Note>,
+}
+
+impl Project {
+    /// Load a project folder, its `gibbsite.yaml`, a model YAML file, or an
+    /// SBML file (`.xml`, `.xml.gz`, `.sbml`). All input problems are
+    /// returned together as `Error::Input`.
+    pub fn load(path: &Path) -> Result<Project> {
+        if path.is_dir() {
+            return load_settings_file(&path.join(SETTINGS_FILE));
+        }
+        let name = path
+            .file_name()
+            .map(|n| n.to_string_lossy().to_lowercase())
+            .unwrap_or_default();
+        if name == SETTINGS_FILE {
+            return load_settings_file(path);
+        }
+        if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
+            let model = sbml::read_sbml(path)?;
+            return Ok(Project::with_defaults(path, model));
+        }
+        if !path.exists() {
+            return Err(Error::input(Diagnostic::new(
+                path,
+                "no such file or folder; expected a project folder, gibbsite.yaml, a model .yaml or an SBML file",
+            )));
+        }
+        let model = load_model_files(&[path.to_path_buf()], &[])?;
+        Ok(Project::with_defaults(path, model))
+    }
+
+    /// A project around a model with every setting at its default.
+    pub fn with_defaults(path: &Path, model: Model) -> Project {
+        Project {
+            root: path.parent().unwrap_or(Path::new(".")).to_path_buf(),
+            settings: Settings {
+                title: model.title.clone(),
+                model_files: vec![path.to_path_buf()],
+                notes_dir: None,
+                theme_dir: None,
+                confidence: DEFAULT_CONFIDENCE,
+                default_concentration: DEFAULT_CONCENTRATION,
+                min_driving_force_kj: DEFAULT_MIN_DRIVING_FORCE_KJ,
+            },
+            model,
+            notes: Vec::new(),
+        }
+    }
+}
+
+fn read_text(path: &Path) -> Result<String> {
+    std::fs::read_to_string(path).map_err(|e| {
+        let message = match e.kind() {
+            std::io::ErrorKind::NotFound => "file not found".to_string(),
+            std::io::ErrorKind::InvalidData => "file is not valid UTF-8 text".to_string(),
+            _ => format!("cannot read file: {e}"),
+        };
+        Error::input(Diagnostic::new(path, message))
+    })
+}
+
+fn load_settings_file(settings_path: &Path) -> Result<Project> {
+    let root = settings_path
+        .parent()
+        .unwrap_or(Path::new("."))
+        .to_path_buf();
+    let text = read_text(settings_path)?;
+    let mut diagnostics = Vec::new();
+    let Some(parsed) =
+        yaml::parse::<RawSettings>(settings_path, &text, FileKind::Settings, &mut diagnostics)
+    else {
+        return Err(Error::Input(diagnostics));
+    };
+    let raw = parsed.value;
+    let map = parsed.map;
+    let key = |k: &str| vec![Segment::Key(k.to_string())];
+    let at = |p: &[Segment]| map.nearest(p).map(|l| l.pair());
+
+    let confidence = raw.confidence.unwrap_or(DEFAULT_CONFIDENCE);
+    if !(0.5..=0.9999).contains(&confidence) {
+        diagnostics.push(
+            Diagnostic::new(
+                settings_path,
+                format!("confidence must be between 0.5 and 0.9999, found {confidence}"),
+            )
+            .at_opt(at(&key("confidence"))),
+        );
+    }
+    let default_concentration = match &raw.default_concentration {
+        Some(r) => model_file::validate_range(
+            settings_path,
+            &map,
+            r,
+            &key("default_concentration"),
+            &mut diagnostics,
+        )
+        .unwrap_or(DEFAULT_CONCENTRATION),
+        None => DEFAULT_CONCENTRATION,
+    };
+    let min_driving_force_kj = match &raw.min_driving_force {
+        Some(q) => match units::parse(q, units::Kind::Energy) {
+            Ok(v) if v >= 0.0 => v,
+            Ok(v) => {
+                diagnostics.push(
+                    Diagnostic::new(
+                        settings_path,
+                        format!("min_driving_force must not be negative, found {v} kJ/mol"),
+                    )
+                    .at_opt(at(&key("min_driving_force"))),
+                );
+                DEFAULT_MIN_DRIVING_FORCE_KJ
+            }
+            Err(e) => {
+                diagnostics
+                    .push(Diagnostic::new(settings_path, e).at_opt(at(&key("min_driving_force"))));
+                DEFAULT_MIN_DRIVING_FORCE_KJ
+            }
+        },
+        None => DEFAULT_MIN_DRIVING_FORCE_KJ,
+    };
+    let folder = |name: &Option<String>, k: &str, diagnostics: &mut Vec<Diagnostic>| {
+        let dir = root.join(name.as_ref()?);
+        if dir.is_dir() {
+            Some(dir)
+        } else {
+            diagnostics.push(
+                Diagnostic::new(
+                    settings_path,
+                    format!("{k} folder `{}` not found", dir.display()),
+                )
+                .at_opt(at(&key(k))),
+            );
+            None
+        }
+    };
+    let notes_dir = match &raw.notes {
+        Some(_) => folder(&raw.notes, "notes", &mut diagnostics),
+        None => Some(root.join("notes")).filter(|d| d.is_dir()),
+    };
+    let theme_dir = folder(&raw.theme, "theme", &mut diagnostics);
+    let model_files: Vec<PathBuf> = raw.model.0.iter().map(|m| root.join(m)).collect();
+    if model_files.is_empty() {
+        diagnostics.push(
+            Diagnostic::new(settings_path, "`model` names no file").at_opt(at(&key("model"))),
+        );
+    }
+    for (i, file) in model_files.iter().enumerate() {
+        if !file.is_file() {
+            let p = if raw.model.0.len() == 1 {
+                key("model")
+            } else {
+                vec![Segment::Key("model".into()), Segment::Index(i)]
+            };
+            diagnostics.push(
+                Diagnostic::new(
+                    settings_path,
+                    format!("model file `{}` not found", file.display()),
+                )
+                .at_opt(at(&p)),
+            );
+        }
+    }
+    if !diagnostics.is_empty() {
+        return Err(Error::Input(diagnostics));
+    }
+
+    let extra: Vec<_> = raw
+        .scenarios
+        .iter()
+        .enumerate()
+        .map(|(i, s)| (settings_path.to_path_buf(), &map, s.clone(), i))
+        .collect();
+    let mut model = load_model_files(&model_files, &extra)?;
+    apply_role_overrides(&mut model, &raw, settings_path, &map)?;
+    let notes = match &notes_dir {
+        Some(dir) => read_notes(dir)?,
+        None => Vec::new(),
+    };
+    Ok(Project {
+        root,
+        settings: Settings {
+            title: raw.title.clone().unwrap_or_else(|| model.title.clone()),
+            model_files,
+            notes_dir,
+            theme_dir,
+            confidence,
+            default_concentration,
+            min_driving_force_kj,
+        },
+        model,
+        notes,
+    })
+}
+
+fn apply_role_overrides(
+    model: &mut Model,
+    raw: &RawSettings,
+    settings_path: &Path,
+    map: &sourcemap::SourceMap,
+) -> Result<()> {
+    let mut diagnostics = Vec::new();
+    for (id, role) in &raw.roles {
+        let p = vec![Segment::Key("roles".into()), Segment::Key(id.clone())];
+        let Some(r) = model.reaction_index(id) else {
+            diagnostics.push(
+                Diagnostic::new(
+                    settings_path,
+                    format!("role override names unknown reaction `{id}`"),
+                )
+                .at_opt(map.key(&p).map(|l| l.pair())),
+            );
+            continue;
+        };
+        match Role::from_slug(role) {
+            Some(role) => model.reactions[r].role = role,
+            None => diagnostics.push(
+                Diagnostic::new(
+                    settings_path,
+                    format!("unknown role `{role}`; expected one of internal, exchange, demand, sink, biomass"),
+                )
+                .at_opt(map.value(&p).map(|l| l.pair())),
+            ),
+        }
+    }
+    if diagnostics.is_empty() {
+        Ok(())
+    } else {
+        Err(Error::Input(diagnostics))
+    }
+}
+
+/// Load and validate model files sharing one namespace; SBML files named in
+/// `gibbsite.yaml` are imported in memory.
+pub fn load_model_files(
+    files: &[PathBuf],
+    extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
+) -> Result<Model> {
+    if let [single] = files {
+        let name = single.to_string_lossy().to_lowercase();
+        if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
+            return sbml::read_sbml(single);
+        }
+    }
+    let mut diagnostics = Vec::new();
+    let mut sources = Vec::new();
+    for file in files {
+        let text = match read_text(file) {
+            Ok(t) => t,
+            Err(e) => {
+                diagnostics.extend(e.diagnostics().iter().cloned());
+                continue;
+            }
+        };
+        if let Some(parsed) =
+            yaml::parse::<RawModelFile>(file, &text, FileKind::Model, &mut diagnostics)
+        {
+            sources.push(model_file::ModelSource {
+                file: file.clone(),
+                raw: parsed.value,
+                map: parsed.map,
+            });
+        }
+    }
+    let model = if sources.len() == files.len() {
+        model_file::build(&sources, extra_scenarios, &mut diagnostics)
+    } else {
+        None
+    };
+    match model {
+        Some(m) if diagnostics.is_empty() => Ok(m),
+        _ => {
+            diagnostics.sort();
+            diagnostics.dedup();
+            Err(Error::Input(diagnostics))
+        }
+    }
+}
+
+/// Notes: every `*.md` file of the folder, sorted by file name; the title is
+/// the first `# ` heading, else the file stem.
+fn read_notes(dir: &Path) -> Result<Vec<Note>> {
+    let entries = std::fs::read_dir(dir).map_err(|e| Error::io(dir, e))?;
+    let mut files: Vec<PathBuf> = entries
+        .filter_map(|e| e.ok().map(|e| e.path()))
+        .filter(|p| p.extension().is_some_and(|x| x == "md") && p.is_file())
+        .collect();
+    files.sort();
+    let mut notes = Vec::new();
+    for file in files {
+        let markdown = read_text(&file)?;
+        let stem = file
+            .file_stem()
+            .map(|s| s.to_string_lossy().into_owned())
+            .unwrap_or_default();
+        let title = markdown
+            .lines()
+            .find_map(|l| l.strip_prefix("# "))
+            .map(|t| t.trim().to_string())
+            .unwrap_or_else(|| stem.clone());
+        notes.push(Note {
+            slug: crate::slug::slug(&stem),
+            title,
+            markdown,
+        });
+    }
+    Ok(notes)
+}
