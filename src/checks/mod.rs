@@ -1,1 +1,61 @@
-//! Checks: one file per check.
+//! Checks: one file per check, each a pure function of the [`Analysis`].
+//! Adding a check means one new file plus one line in [`REGISTRY`].
+
+use crate::analysis::Analysis;
+use crate::report::Finding;
+
+pub mod bounds_audit;
+pub mod missing_energy;
+pub mod scenario_directions;
+
+/// A registered check.
+pub struct Check {
+    /// Prefix shared by the finding kinds it emits, for the overview.
+    pub slug: &'static str,
+    pub title: &'static str,
+    pub description: &'static str,
+    pub run: fn(&Analysis) -> Vec<Finding>,
+}
+
+/// Every check, in the order the overview lists them.
+pub const REGISTRY: &[Check] = &[
+    bounds_audit::CHECK,
+    scenario_directions::CHECK,
+    missing_energy::CHECK,
+];
+
+/// Shorthand for the evidence map of a finding.
+pub(crate) fn evidence(pairs: &[(&str, f64)]) -> std::collections::BTreeMap<String, f64> {
+    pairs
+        .iter()
+        .filter(|(_, v)| v.is_finite())
+        .map(|(k, v)| ((*k).to_string(), *v))
+        .collect()
+}
+
+/// Evidence common to direction verdicts of one reaction.
+pub(crate) fn range_evidence(
+    analysis: &Analysis,
+    j: usize,
+) -> std::collections::BTreeMap<String, f64> {
+    match &analysis.reaction_thermo[j] {
+        Ok(t) => evidence(&[
+            ("drg0", t.drg0_kj),
+            ("sigma", t.sigma_kj),
+            ("allowance", analysis.sigma_multiplier * t.sigma_kj),
+            ("dg_min", t.range.min),
+            ("dg_max", t.range.max),
+        ]),
+        Err(_) => Default::default(),
+    }
+}
+
+/// "−12.34 kJ/mol" with a real minus sign, for messages.
+pub(crate) fn kj(value: f64) -> String {
+    let text = format!("{:.2} kJ/mol", value.abs());
+    if value < -0.005 {
+        format!("−{text}")
+    } else {
+        text
+    }
+}

@@ -50,12 +50,14 @@ pub fn parse(text: &str) -> Result<Equation, EquationError> {
         .collect();
     let arrow_at = match arrows.as_slice() {
         [one] => *one,
-        [] => return Err(EquationError {
-            message: format!(
+        [] => {
+            return Err(EquationError {
+                message: format!(
                 "no arrow in equation `{text}`; expected `->`, `<-` or `<->` between the two sides"
             ),
-            offset: 0,
-        }),
+                offset: 0,
+            })
+        }
         [_, second, ..] => {
             return Err(EquationError {
                 message: "more than one arrow in the equation".to_string(),

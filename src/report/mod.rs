@@ -5,7 +5,9 @@
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 
+pub mod build;
 pub mod json;
+pub mod text;
 
 /// Version of the `report.json` shape; bump on breaking changes.
 pub const REPORT_SCHEMA_VERSION: u32 = 1;

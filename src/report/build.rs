@@ -1,0 +1,312 @@
+//! Turning an analysis into the Report: the one place that reads model
+//! types on the output side.
+
+use super::*;
+use crate::analysis::Analysis;
+use crate::model::{Model, Special};
+use crate::project::Project;
+use crate::slug::slug;
+
+/// The standing caution printed on every report.
+pub const CAUTION: &str = "ΔG values here are estimates and carry uncertainty (σ is shown beside each). \
+A flagged contradiction or marginal step is a prompt for expert review against measurements and the literature, \
+not a verdict on the biology.";
+
+/// Deterministic order: severity, kind, first subject, scenario, message.
+pub fn sort_findings(findings: &mut [Finding]) {
+    findings.sort_by(|a, b| {
+        (a.severity, &a.kind, &a.subjects, &a.scenario, &a.message).cmp(&(
+            b.severity,
+            &b.kind,
+            &b.subjects,
+            &b.scenario,
+            &b.message,
+        ))
+    });
+}
+
+pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> Report {
+    let model = &project.model;
+    let settings = &project.settings;
+    let mut by_kind: BTreeMap<String, usize> = BTreeMap::new();
+    for f in &findings {
+        *by_kind.entry(f.kind.clone()).or_default() += 1;
+    }
+    let count = |s: Severity| findings.iter().filter(|f| f.severity == s).count();
+    let summary = Summary {
+        reactions: model.reactions.len(),
+        internal_reactions: (0..model.reactions.len())
+            .filter(|&j| analysis.is_thermodynamic(j))
+            .count(),
+        metabolites: model.metabolites.len(),
+        compartments: model.compartments.len(),
+        scenarios: model.scenarios.len(),
+        errors: count(Severity::Error),
+        warnings: count(Severity::Warning),
+        notes: count(Severity::Note),
+        reactions_with_energy: analysis
+            .reaction_thermo
+            .iter()
+            .filter(|t| t.is_ok())
+            .count(),
+        metabolites_with_energy: analysis
+            .metabolite_energy
+            .iter()
+            .filter(|e| e.is_some())
+            .count(),
+        by_kind,
+        checks: crate::checks::REGISTRY
+            .iter()
+            .map(|c| CheckInfo {
+                slug: c.slug.to_string(),
+                title: c.title.to_string(),
+                description: c.description.to_string(),
+            })
+            .collect(),
+    };
+    Report {
+        schema_version: REPORT_SCHEMA_VERSION,
+        tool: ToolInfo {
+            name: "gibbsite".into(),
+            version: env!("CARGO_PKG_VERSION").into(),
+            generated: generated_timestamp(),
+        },
+        project: ProjectInfo {
+            title: settings.title.clone(),
+            model_id: model.id.clone(),
+            model_title: model.title.clone(),
+            temperature_k: model.temperature_k,
+            confidence: settings.confidence,
+            sigma_multiplier: analysis.sigma_multiplier,
+            min_driving_force_kj: settings.min_driving_force_kj,
+            default_concentration_m: RangeView {
+                min: settings.default_concentration.min,
+                max: settings.default_concentration.max,
+            },
+            caution: CAUTION.into(),
+        },
+        summary,
+        findings,
+        compartments: model
+            .compartments
+            .iter()
+            .enumerate()
+            .map(|(c, x)| CompartmentView {
+                id: x.id.clone(),
+                name: x.name.clone(),
+                ph: x.ph,
+                ionic_strength_m: x.ionic_strength_m,
+                potential_mv: x.potential_mv,
+                temperature_k: model.compartment_temperature(c),
+                pmg: x.pmg,
+            })
+            .collect(),
+        metabolites: metabolite_views(model, analysis),
+        reactions: reaction_views(model, analysis),
+        scenarios: scenario_views(model, analysis),
+        notes: project
+            .notes
+            .iter()
+            .map(|n| NoteView {
+                slug: n.slug.clone(),
+                title: n.title.clone(),
+                markdown: n.markdown.clone(),
+            })
+            .collect(),
+    }
+}
+
+/// RFC 3339 UTC time of the run; SOURCE_DATE_EPOCH (seconds) makes it fixed
+/// for reproducible builds.
+fn generated_timestamp() -> String {
+    let secs = std::env::var("SOURCE_DATE_EPOCH")
+        .ok()
+        .and_then(|s| s.trim().parse::<i64>().ok())
+        .unwrap_or_else(|| {
+            std::time::SystemTime::now()
+                .duration_since(std::time::UNIX_EPOCH)
+                .map(|d| d.as_secs() as i64)
+                .unwrap_or(0)
+        });
+    time::OffsetDateTime::from_unix_timestamp(secs)
+        .ok()
+        .and_then(|t| {
+            t.format(&time::format_description::well_known::Rfc3339)
+                .ok()
+        })
+        .unwrap_or_else(|| "1970-01-01T00:00:00Z".into())
+}
+
+fn metabolite_views(model: &Model, analysis: &Analysis) -> Vec<MetaboliteView> {
+    model
+        .metabolites
+        .iter()
+        .enumerate()
+        .map(|(i, m)| {
+            let (consumers, producers) = analysis.network.consumers_and_producers(i);
+            let ids = |v: Vec<usize>| {
+                v.into_iter()
+                    .map(|j| model.reactions[j].id.clone())
+                    .collect()
+            };
+            let energy = analysis.metabolite_energy[i].as_ref();
+            let range = analysis.concentration(i);
+            MetaboliteView {
+                id: m.id.clone(),
+                slug: slug(&m.id),
+                name: m.name.clone(),
+                compartment: model.compartments[m.compartment].id.clone(),
+                formula: m.formula.clone(),
+                charge: m.charge,
+                dfg_prime: energy.map(|e| EnergyView {
+                    value_kj: e.value_kj,
+                    sigma_kj: e.sigma_kj,
+                    source: e.source.clone(),
+                }),
+                energy_origin: energy.map(|e| e.origin.to_string()),
+                concentration_m: RangeView {
+                    min: range.min,
+                    max: range.max,
+                },
+                concentration_is_default: m.concentration.is_none(),
+                measured_m: m.measured_m,
+                special: match m.special {
+                    Special::None => String::new(),
+                    Special::Proton => "proton".into(),
+                    Special::Water => "water".into(),
+                },
+                xrefs: m.xrefs.clone(),
+                consumed_by: ids(consumers),
+                produced_by: ids(producers),
+            }
+        })
+        .collect()
+}
+
+/// `2 a + b -> c` with the arrow the bounds imply.
+pub fn equation_text(model: &Model, j: usize) -> String {
+    let r = &model.reactions[j];
+    let side = |sign: f64| {
+        r.stoichiometry
+            .iter()
+            .filter(|(_, c)| c.signum() == sign)
+            .map(|&(i, c)| {
+                let id = &model.metabolites[i].id;
+                if c.abs() == 1.0 {
+                    id.clone()
+                } else {
+                    format!("{} {id}", c.abs())
+                }
+            })
+            .collect::<Vec<_>>()
+            .join(" + ")
+    };
+    let arrow = match (r.allows_forward(), r.allows_backward()) {
+        (true, true) => "<->",
+        (false, true) => "<-",
+        _ => "->",
+    };
+    format!("{} {arrow} {}", side(-1.0), side(1.0))
+        .trim()
+        .to_string()
+}
+
+fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
+    model
+        .reactions
+        .iter()
+        .enumerate()
+        .map(|(j, r)| {
+            let thermo = analysis.reaction_thermo[j].as_ref().ok();
+            let judged = analysis.is_thermodynamic(j);
+            let verdict_for =
+                |allowed: bool, d: f64| (judged && allowed).then(|| analysis.verdict(j, d));
+            ReactionView {
+                id: r.id.clone(),
+                slug: slug(&r.id),
+                name: r.name.clone(),
+                equation: equation_text(model, j),
+                participants: r
+                    .stoichiometry
+                    .iter()
+                    .map(|&(i, c)| ParticipantView {
+                        metabolite: model.metabolites[i].id.clone(),
+                        slug: slug(&model.metabolites[i].id),
+                        name: model.metabolites[i].name.clone(),
+                        coefficient: c,
+                    })
+                    .collect(),
+                reversible: r.reversible,
+                lower_bound: r.lower_bound,
+                upper_bound: r.upper_bound,
+                role: r.role.slug().into(),
+                group: r.group.clone(),
+                drg_prime: thermo.map(|t| EnergyView {
+                    value_kj: t.drg0_kj,
+                    sigma_kj: t.sigma_kj,
+                    source: t.source.clone(),
+                }),
+                energy_origin: thermo.map(|t| t.origin.slug().into()),
+                k_prime: thermo.map(|t| t.k_prime).filter(|k| k.is_finite()),
+                dg_range: thermo.map(|t| RangeView {
+                    min: t.range.min,
+                    max: t.range.max,
+                }),
+                dg_measured: thermo.and_then(|t| t.measured_kj),
+                forward_verdict: verdict_for(r.allows_forward(), 1.0),
+                backward_verdict: verdict_for(r.allows_backward(), -1.0),
+                scenario_verdicts: model
+                    .scenarios
+                    .iter()
+                    .filter_map(|s| {
+                        let flux = s.fluxes.iter().find(|(k, _)| *k == j)?.1;
+                        Some(ScenarioVerdictView {
+                            scenario: s.id.clone(),
+                            flux,
+                            verdict: if judged {
+                                analysis.verdict(j, flux.signum())
+                            } else {
+                                Verdict::NoData
+                            },
+                        })
+                    })
+                    .collect(),
+                missing_data: match &analysis.reaction_thermo[j] {
+                    Err(m) => m.iter().map(|&i| model.metabolites[i].id.clone()).collect(),
+                    Ok(_) => Vec::new(),
+                },
+            }
+        })
+        .collect()
+}
+
+fn scenario_views(model: &Model, analysis: &Analysis) -> Vec<ScenarioView> {
+    model
+        .scenarios
+        .iter()
+        .map(|s| {
+            let mut view = ScenarioView {
+                id: s.id.clone(),
+                description: s.description.clone(),
+                active_reactions: 0,
+                contradictions: 0,
+                marginal: 0,
+                consistent: 0,
+                no_data: 0,
+            };
+            for &(j, flux) in &s.fluxes {
+                if !analysis.is_thermodynamic(j) {
+                    continue;
+                }
+                view.active_reactions += 1;
+                match analysis.verdict(j, flux.signum()) {
+                    Verdict::Contradiction => view.contradictions += 1,
+                    Verdict::Marginal => view.marginal += 1,
+                    Verdict::Consistent => view.consistent += 1,
+                    Verdict::NoData => view.no_data += 1,
+                }
+            }
+            view
+        })
+        .collect()
+}
