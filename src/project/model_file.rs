@@ -20,6 +20,11 @@ use std::path::{Path, PathBuf};
 pub const DEFAULT_PH: f64 = 7.0;
 pub const DEFAULT_IONIC_STRENGTH_M: f64 = 0.25;
 
+/// Index given to an entity that failed validation: its id stays known so
+/// references to it raise no second error. Never used to index: a model
+/// with any diagnostic is discarded.
+const INVALID: usize = usize::MAX;
+
 /// One model file after parsing.
 pub struct ModelSource {
     pub file: PathBuf,
@@ -205,9 +210,16 @@ pub fn build(
             if duplicate(&mut r, &mut first_seen, 0, &raw.id, &here, "compartment") {
                 continue;
             }
-            if let Some(c) = compartment(&mut r, raw, &here) {
-                compartment_ids.insert(c.id.clone(), model.compartments.len());
-                model.compartments.push(c);
+            match compartment(&mut r, raw, &here) {
+                Some(c) => {
+                    compartment_ids.insert(c.id.clone(), model.compartments.len());
+                    model.compartments.push(c);
+                }
+                // Keep the id known so references to it do not cascade into
+                // more errors; the model is discarded anyway.
+                None => {
+                    compartment_ids.insert(raw.id.clone(), INVALID);
+                }
             }
         }
     }
@@ -224,9 +236,14 @@ pub fn build(
             if duplicate(&mut r, &mut first_seen, 1, &raw.id, &here, "metabolite") {
                 continue;
             }
-            if let Some(m) = metabolite(&mut r, raw, &here, &compartment_ids) {
-                metabolite_ids.insert(m.id.clone(), model.metabolites.len());
-                model.metabolites.push(m);
+            match metabolite(&mut r, raw, &here, &compartment_ids) {
+                Some(m) => {
+                    metabolite_ids.insert(m.id.clone(), model.metabolites.len());
+                    model.metabolites.push(m);
+                }
+                None => {
+                    metabolite_ids.insert(raw.id.clone(), INVALID);
+                }
             }
         }
     }
@@ -243,11 +260,14 @@ pub fn build(
             if duplicate(&mut r, &mut first_seen, 2, &raw.id, &here, "reaction") {
                 continue;
             }
-            if let Some(reaction) =
-                reaction(&mut r, raw, &here, &metabolite_ids, &model.metabolites)
-            {
-                reaction_ids.insert(reaction.id.clone(), model.reactions.len());
-                model.reactions.push(reaction);
+            match reaction(&mut r, raw, &here, &metabolite_ids, &model.metabolites) {
+                Some(reaction) => {
+                    reaction_ids.insert(reaction.id.clone(), model.reactions.len());
+                    model.reactions.push(reaction);
+                }
+                None => {
+                    reaction_ids.insert(raw.id.clone(), INVALID);
+                }
             }
         }
     }
