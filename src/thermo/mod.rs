@@ -4,3 +4,5 @@
 
 pub mod constants;
 pub mod reaction;
+
+pub mod legendre;
