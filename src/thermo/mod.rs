@@ -6,3 +6,4 @@ pub mod constants;
 pub mod reaction;
 
 pub mod legendre;
+pub mod uncertainty;
