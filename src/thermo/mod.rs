@@ -6,4 +6,5 @@ pub mod constants;
 pub mod reaction;
 
 pub mod legendre;
+pub mod transport;
 pub mod uncertainty;
