@@ -6,5 +6,6 @@ pub mod constants;
 pub mod reaction;
 
 pub mod legendre;
+pub mod library;
 pub mod transport;
 pub mod uncertainty;
