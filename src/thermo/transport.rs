@@ -27,7 +27,7 @@
 //!
 //! With μ_H,c = RT_c·ln(10^−pH_c) − RTα(T_c)·√I_c/(1 + 1.6√I_c) the chemical
 //! potential of H⁺ in compartment c (the quantity Alberty's transform
-//! subtracts nH times), ηc = Σ_{i in c} νᵢ·nHᵢ the hydrogen gained by
+//! subtracts nH times), η_c = Σ_{i in c} νᵢ·nHᵢ the hydrogen gained by
 //! compartment c's participants and q_c = Σ_{i in c} νᵢ·zᵢ their charge gained:
 //!
 //! ```text
