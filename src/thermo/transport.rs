@@ -51,7 +51,7 @@
 //!
 //! # Worked example: proton import
 //!
-//! H⁺[out] → H⁺[in] at 298.15 K, pH_out = 7.00, pH_in = 7.75 (inside alkaline),
+//! H⁺(out) → H⁺(in) at 298.15 K, pH_out = 7.00, pH_in = 7.75 (inside alkaline),
 //! equal ionic strength, ψ_out = 0 mV, ψ_in = −150 mV (inside negative):
 //!
 //! ```text
