@@ -4,3 +4,8 @@
 
 pub mod constants;
 pub mod reaction;
+
+pub mod legendre;
+pub mod library;
+pub mod transport;
+pub mod uncertainty;
