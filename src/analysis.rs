@@ -8,16 +8,9 @@ use crate::network::Network;
 use crate::project::{Project, Settings};
 use crate::report::{Finding, Report, Verdict};
 use crate::thermo::reaction::{self, Participant};
+use crate::thermo::transport::{self, CompartmentState, Participant as TransportParticipant};
 
-/// A metabolite's ΔfG'° at its compartment's conditions.
-#[derive(Debug, Clone, PartialEq)]
-pub struct MetaboliteEnergy {
-    pub value_kj: f64,
-    pub sigma_kj: f64,
-    /// "model" (given as ΔfG'°), "species" or "library".
-    pub origin: &'static str,
-    pub source: String,
-}
+pub use crate::thermo::metabolite::{MetaboliteEnergy, MetaboliteThermo};
 
 /// Where a reaction's ΔrG'° came from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -37,6 +30,18 @@ impl EnergyOrigin {
     }
 }
 
+/// ΔrG'° of a reaction spanning compartments, split into its terms (Jol et
+/// al., Biophys. J. 99 (2010) 3139; see `thermo::transport`).
+#[derive(Debug, Clone, PartialEq)]
+pub struct TransportTerms {
+    pub formation_sum_kj: f64,
+    pub proton_term_kj: f64,
+    pub electrical_term_kj: f64,
+    /// False when H or charge is unbalanced, so the split depends on the
+    /// reference compartment chosen.
+    pub reference_independent: bool,
+}
+
 /// Everything known about a reaction's thermodynamics.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ReactionThermo {
@@ -49,15 +54,25 @@ pub struct ReactionThermo {
     /// ΔG' over the allowed concentrations (no σ allowance).
     pub range: Range,
     pub measured_kj: Option<f64>,
+    /// Present when participants sit in more than one compartment.
+    pub transport: Option<TransportTerms>,
+}
+
+/// Why a reaction has no ΔrG'°.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MissingEnergy {
+    /// Metabolites without a usable ΔfG'°.
+    pub metabolites: Vec<usize>,
+    /// Other reasons (e.g. a formula needed for a transport step).
+    pub reasons: Vec<String>,
 }
 
 pub struct Analysis<'a> {
     pub model: &'a Model,
     pub settings: &'a Settings,
     pub network: Network,
-    pub metabolite_energy: Vec<Option<MetaboliteEnergy>>,
-    /// `Err` lists the metabolites whose missing ΔfG'° left no ΔrG'°.
-    pub reaction_thermo: Vec<Result<ReactionThermo, Vec<usize>>>,
+    pub metabolites: Vec<MetaboliteThermo>,
+    pub reaction_thermo: Vec<Result<ReactionThermo, MissingEnergy>>,
     /// k in the k·σ allowance, from the confidence level.
     pub sigma_multiplier: f64,
 }
@@ -65,30 +80,29 @@ pub struct Analysis<'a> {
 impl<'a> Analysis<'a> {
     pub fn new(model: &'a Model, settings: &'a Settings) -> Analysis<'a> {
         let network = Network::build(model);
-        let metabolite_energy: Vec<Option<MetaboliteEnergy>> = model
-            .metabolites
-            .iter()
-            .map(|m| {
-                m.dfg_prime.as_ref().map(|e| MetaboliteEnergy {
-                    value_kj: e.value_kj,
-                    sigma_kj: e.sigma_kj,
-                    origin: "model",
-                    source: e.source.clone(),
-                })
-            })
+        let metabolites: Vec<MetaboliteThermo> = (0..model.metabolites.len())
+            .map(|i| crate::thermo::metabolite::resolve(model, i))
             .collect();
+        // The loader accepts confidence in [0.5, 0.9999] only, so this cannot fail.
+        let sigma_multiplier =
+            crate::thermo::uncertainty::sigma_multiplier(settings.confidence).unwrap_or(1.96);
         let mut analysis = Analysis {
             model,
             settings,
             network,
-            metabolite_energy,
+            metabolites,
             reaction_thermo: Vec::new(),
-            sigma_multiplier: sigma_multiplier(settings.confidence),
+            sigma_multiplier,
         };
         analysis.reaction_thermo = (0..model.reactions.len())
             .map(|j| analysis.compute_reaction(j))
             .collect();
         analysis
+    }
+
+    /// ΔfG'° of metabolite i, when known.
+    pub fn metabolite_energy(&self, i: usize) -> Option<&MetaboliteEnergy> {
+        self.metabolites[i].energy.as_ref()
     }
 
     /// Allowed concentration range of a metabolite (its own or the default).
@@ -134,38 +148,25 @@ impl<'a> Analysis<'a> {
         }
     }
 
-    fn compute_reaction(&self, j: usize) -> Result<ReactionThermo, Vec<usize>> {
+    fn compute_reaction(&self, j: usize) -> Result<ReactionThermo, MissingEnergy> {
         let r = &self.model.reactions[j];
         let temperature_k = self.reaction_temperature(j);
-        let (drg0_kj, sigma_kj, origin, source) = match &r.drg_prime {
+        let (drg0_kj, sigma_kj, origin, source, transport) = match &r.drg_prime {
             Some(e) => (
                 e.value_kj,
                 e.sigma_kj,
                 EnergyOrigin::Reaction,
                 e.source.clone(),
+                None,
             ),
             None => {
-                let mut terms = Vec::new();
-                let mut missing = Vec::new();
-                for &(i, c) in &r.stoichiometry {
-                    if self.model.metabolites[i].special == Special::Proton {
-                        // H+ is fixed by pH: its transformed ΔfG'° is zero.
-                        continue;
-                    }
-                    match &self.metabolite_energy[i] {
-                        Some(e) => terms.push((c, e.value_kj, e.sigma_kj)),
-                        None => missing.push(i),
-                    }
-                }
-                if !missing.is_empty() {
-                    return Err(missing);
-                }
-                let (value, sigma) = reaction::weighted_sum(&terms);
+                let (value, sigma, transport) = self.formation_energy_sum(j)?;
                 (
                     value,
                     sigma,
                     EnergyOrigin::Formation,
                     "Σ ν·ΔfG'°".to_string(),
+                    transport,
                 )
             }
         };
@@ -179,7 +180,89 @@ impl<'a> Analysis<'a> {
             k_prime: reaction::k_prime(drg0_kj, temperature_k),
             range: reaction::dg_range(drg0_kj, temperature_k, &participants),
             measured_kj: reaction::dg_measured(drg0_kj, temperature_k, &participants),
+            transport,
         })
+    }
+
+    /// Σ ν·ΔfG'° with its σ; for a reaction spanning compartments, plus the
+    /// proton and electrical terms of moving H and charge across membranes.
+    fn formation_energy_sum(
+        &self,
+        j: usize,
+    ) -> Result<(f64, f64, Option<TransportTerms>), MissingEnergy> {
+        let r = &self.model.reactions[j];
+        let mut missing = MissingEnergy {
+            metabolites: Vec::new(),
+            reasons: Vec::new(),
+        };
+        let mut terms = Vec::new();
+        for &(i, c) in &r.stoichiometry {
+            match self.metabolite_energy(i) {
+                Some(e) => terms.push((c, e.value_kj, e.sigma_kj)),
+                None => missing.metabolites.push(i),
+            }
+        }
+        if !missing.metabolites.is_empty() {
+            return Err(missing);
+        }
+        let (value, sigma) = reaction::weighted_sum(&terms);
+        let compartment_of = |i: usize| self.model.metabolites[i].compartment;
+        let first = r.stoichiometry.first().map(|&(i, _)| compartment_of(i));
+        if r.stoichiometry
+            .iter()
+            .all(|&(i, _)| Some(compartment_of(i)) == first)
+        {
+            return Ok((value, sigma, None));
+        }
+        let states: Vec<CompartmentState> = self
+            .model
+            .compartments
+            .iter()
+            .map(|c| CompartmentState::of_compartment(c, self.model.temperature_k))
+            .collect();
+        let mut parts = Vec::new();
+        for &(i, c) in &r.stoichiometry {
+            let m = &self.model.metabolites[i];
+            if m.special == Special::Proton {
+                parts.push(TransportParticipant::proton(c, m.compartment));
+                continue;
+            }
+            match carried_hydrogens_and_charge(m, &self.metabolites[i]) {
+                Some((hydrogens, charge)) => parts.push(TransportParticipant {
+                    coefficient: c,
+                    compartment: m.compartment,
+                    dfg_prime_kj: self.metabolite_energy(i).map(|e| e.value_kj).unwrap_or(0.0),
+                    hydrogens,
+                    charge,
+                    is_proton: false,
+                }),
+                None => missing.reasons.push(format!(
+                    "`{}` crosses a membrane but has no formula and charge to count the H and charge it carries",
+                    m.id
+                )),
+            }
+        }
+        if !missing.reasons.is_empty() {
+            return Err(missing);
+        }
+        match transport::standard_reaction_energy(&states, &parts, None) {
+            Ok(b) => Ok((
+                b.total_kj,
+                sigma,
+                Some(TransportTerms {
+                    formation_sum_kj: b.formation_sum_kj,
+                    proton_term_kj: b.proton_term_kj,
+                    electrical_term_kj: b.electrical_term_kj,
+                    reference_independent: b.is_reference_independent(),
+                }),
+            )),
+            Err(e) => {
+                missing
+                    .reasons
+                    .push(format!("transport terms cannot be computed: {e}"));
+                Err(missing)
+            }
+        }
     }
 
     /// Verdict for flux of reaction `j` in `direction` (+1 / −1).
@@ -220,64 +303,24 @@ impl Project {
     }
 }
 
-/// Two-sided normal quantile for a confidence level: 0.95 → 1.96.
-/// Acklam's rational approximation of the inverse normal CDF (relative error
-/// below 1.2e-9; P. J. Acklam, "An algorithm for computing the inverse normal
-/// cumulative distribution function", 2003).
-pub fn sigma_multiplier(confidence: f64) -> f64 {
-    let p = 0.5 + confidence / 2.0;
-    const A: [f64; 6] = [
-        -3.969_683_028_665_376e1,
-        2.209_460_984_245_205e2,
-        -2.759_285_104_469_687e2,
-        1.383_577_518_672_69e2,
-        -3.066_479_806_614_716e1,
-        2.506_628_277_459_239,
-    ];
-    const B: [f64; 5] = [
-        -5.447_609_879_822_406e1,
-        1.615_858_368_580_409e2,
-        -1.556_989_798_598_866e2,
-        6.680_131_188_771_972e1,
-        -1.328_068_155_288_572e1,
-    ];
-    const C: [f64; 6] = [
-        -7.784_894_002_430_293e-3,
-        -3.223_964_580_411_365e-1,
-        -2.400_758_277_161_838,
-        -2.549_732_539_343_734,
-        4.374_664_141_464_968,
-        2.938_163_982_698_783,
-    ];
-    const D: [f64; 4] = [
-        7.784_695_709_041_462e-3,
-        3.224_671_290_700_398e-1,
-        2.445_134_137_142_996,
-        3.754_408_661_907_416,
-    ];
-    let p_high = 1.0 - 0.02425;
-    if p <= p_high {
-        let q = p - 0.5;
-        let r = q * q;
-        (((((A[0] * r + A[1]) * r + A[2]) * r + A[3]) * r + A[4]) * r + A[5]) * q
-            / (((((B[0] * r + B[1]) * r + B[2]) * r + B[3]) * r + B[4]) * r + 1.0)
-    } else {
-        let q = (-2.0 * (1.0 - p).ln()).sqrt();
-        -(((((C[0] * q + C[1]) * q + C[2]) * q + C[3]) * q + C[4]) * q + C[5])
-            / ((((D[0] * q + D[1]) * q + D[2]) * q + D[3]) * q + 1.0)
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::sigma_multiplier;
-
-    /// Standard normal quantiles (common practice; any statistics table):
-    /// 95 % two-sided → 1.959964, 99 % → 2.575829, 68.27 % → 1.0.
-    #[test]
-    fn normal_quantiles() {
-        assert!((sigma_multiplier(0.95) - 1.959_964).abs() < 1e-6);
-        assert!((sigma_multiplier(0.99) - 2.575_829).abs() < 1e-6);
-        assert!((sigma_multiplier(0.682_689_5) - 1.0).abs() < 1e-6);
+/// H atoms and charge a metabolite carries across a membrane as written:
+/// from its formula and charge (the same in every compartment, so balanced
+/// equations stay balanced), else the species averages.
+fn carried_hydrogens_and_charge(
+    m: &crate::model::Metabolite,
+    thermo: &MetaboliteThermo,
+) -> Option<(f64, f64)> {
+    let from_formula = m
+        .formula
+        .as_deref()
+        .and_then(|f| crate::chem::parse_formula(f).ok())
+        .filter(|f| f.is_exact())
+        .map(|f| f.count("H") as f64);
+    match (from_formula, m.charge) {
+        (Some(h), Some(z)) => Some((h, f64::from(z))),
+        _ => thermo
+            .species
+            .as_ref()
+            .map(|s| (s.state.mean_hydrogens, s.state.mean_charge)),
     }
 }

@@ -65,7 +65,7 @@ fn demo_report_lists_the_deliberate_problems() {
         ),
         (3, 1, 3)
     );
-    assert_eq!(report.summary.reactions, 27);
+    assert_eq!(report.summary.reactions, 28);
     assert_eq!(report.summary.scenarios, 2);
     assert_eq!(report.compartments.len(), 2);
 }
@@ -74,8 +74,8 @@ fn demo_report_lists_the_deliberate_problems() {
 /// ΔrG'° = ΔfG'°(PEP) + ΔfG'°(ADP) − ΔfG'°(pyr) − ΔfG'°(ATP)
 ///       = −1179.05 − 1424.70 + 342.65 + 2292.50 = +31.40 kJ/mol (demo values),
 /// σ = √(0.8² + 0.5² + 0.6² + 0.5²) = √1.5 = 1.2247 kJ/mol.
-/// Lowest ΔG' at 303.15 K: PEP and ADP at their minimum (10 µM, 0.1 mM), pyruvate
-/// and ATP at their maximum (5 mM each): 31.40 + RT ln(4e-5) = 31.40 − 25.524 = 5.876.
+/// Lowest ΔG' at 298.15 K: PEP and ADP at their minimum (10 µM, 0.1 mM), pyruvate
+/// and ATP at their maximum (5 mM each): 31.40 + RT ln(4e-5) = 31.40 − 25.103 = 6.297.
 #[test]
 fn demo_numbers_match_hand_calculation() {
     let report = Project::load(&demo_dir()).unwrap().analyse();
@@ -83,18 +83,18 @@ fn demo_numbers_match_hand_calculation() {
     let e = peps.drg_prime.as_ref().unwrap();
     assert!((e.value_kj - 31.40).abs() < 1e-9, "{}", e.value_kj);
     assert!((e.sigma_kj - 1.5f64.sqrt()).abs() < 1e-12);
-    let rt = 8.314_462_618e-3 * 303.15;
+    let rt = 8.314_462_618e-3 * 298.15;
     let expected_min = 31.40 + rt * (4e-5f64).ln();
     let range = peps.dg_range.unwrap();
     assert!((range.min - expected_min).abs() < 1e-9, "{}", range.min);
-    assert!((range.min - 5.876).abs() < 0.001);
+    assert!((range.min - 6.297).abs() < 0.001);
     assert_eq!(peps.forward_verdict, Some(Verdict::Contradiction));
     // K' = exp(−31.40 / RT) at 303.15 K.
     assert!((peps.k_prime.unwrap() - (-31.40 / rt).exp()).abs() < 1e-15);
     let stor = report.reactions.iter().find(|r| r.id == "STOR").unwrap();
     assert_eq!(stor.missing_data, vec!["stor_c".to_string()]);
     assert!(stor.drg_prime.is_none());
-    // GAPD at noon is feasible only near its bounds: best ΔG' −1.71 kJ/mol.
+    // GAPD at noon is feasible only near its bounds: best ΔG' −1.58 kJ/mol.
     let gapd = report.reactions.iter().find(|r| r.id == "GAPD").unwrap();
     let noon = gapd
         .scenario_verdicts
@@ -102,7 +102,7 @@ fn demo_numbers_match_hand_calculation() {
         .find(|v| v.scenario == "noon")
         .unwrap();
     assert_eq!(noon.verdict, Verdict::Marginal);
-    assert!((gapd.dg_range.unwrap().min + 1.71).abs() < 0.01);
+    assert!((gapd.dg_range.unwrap().min + 1.58).abs() < 0.01);
 }
 
 fn copy_dir(from: &Path, to: &Path) {
@@ -192,4 +192,70 @@ fn build_writes_a_site_with_report_json() {
         .as_str()
         .unwrap()
         .contains("expert review"));
+}
+
+/// ATP synthase ADP + Pi + 4 H+(out) → ATP + H2O + 3 H+(in). The chemistry is
+/// ΔrG'° = +36.03 kJ/mol (demo values); moving 4 H+ from pH 8.0 outside into
+/// pH 7.0 at ψ = −200 mV costs 4·RT ln10·(8.0 − 7.0) (less the small
+/// ionic-strength difference) and gains 4·F·0.200 V = −77.188 kJ/mol
+/// (F exact, CODATA 2018). Only the membrane potential makes the step run.
+#[test]
+fn membrane_potential_decides_the_atp_synthase_verdict() {
+    let report = Project::load(&demo_dir()).unwrap().analyse();
+    let atps = report.reactions.iter().find(|r| r.id == "ATPS").unwrap();
+    let t = atps.transport.as_ref().unwrap();
+    assert!((t.formation_sum_kj - 36.03).abs() < 1e-9);
+    assert!((t.electrical_term_kj + 4.0 * 96.485_332_12 * 0.200).abs() < 1e-6);
+    let rt_ln10 = 8.314_462_618e-3 * 298.15 * std::f64::consts::LN_10;
+    // Debye–Hückel part of μ(H+): RTα·√I/(1 + 1.6√I) at I = 0.25 and 0.1 M (Alberty 2003, RTα = 2.91482).
+    let dh = |i: f64| 2.91482 * i.sqrt() / (1.0 + 1.6 * i.sqrt());
+    let expected_proton = 4.0 * (rt_ln10 * (8.0 - 7.0) - (dh(0.25) - dh(0.1)));
+    assert!(
+        (t.proton_term_kj - expected_proton).abs() < 1e-6,
+        "{}",
+        t.proton_term_kj
+    );
+    assert!(t.reference_independent);
+    assert_eq!(atps.forward_verdict, Some(Verdict::Consistent));
+
+    // The same model with the membrane potential switched off.
+    let tmp = tempfile::tempdir().unwrap();
+    copy_dir(&demo_dir(), tmp.path());
+    let model = std::fs::read_to_string(tmp.path().join("model.yaml")).unwrap();
+    let flat = model.replace("potential: -200 mV", "potential: 0 mV");
+    assert_ne!(model, flat);
+    std::fs::write(tmp.path().join("model.yaml"), flat).unwrap();
+    let report = Project::load(tmp.path()).unwrap().analyse();
+    let atps = report.reactions.iter().find(|r| r.id == "ATPS").unwrap();
+    assert_eq!(atps.forward_verdict, Some(Verdict::Contradiction));
+    assert!(report
+        .findings
+        .iter()
+        .any(|f| f.kind == "infeasible-direction" && f.subjects[0] == "ATPS"));
+}
+
+/// Glucose from the built-in library (single species, nH = 12, z = 0; Alberty 2003
+/// p. 333 value) at pH 7, I = 0.25 M: ΔfG'° = −426.71 kJ/mol (reference README,
+/// computed with the book's formula). A neutral compound moved between
+/// compartments has ΔrG'° = 0 whatever the pH and potential (first principles).
+#[test]
+fn library_values_and_neutral_transport() {
+    let report = Project::load(&demo_dir()).unwrap().analyse();
+    let glc = report.metabolites.iter().find(|m| m.id == "glc_c").unwrap();
+    assert_eq!(glc.energy_origin.as_deref(), Some("library"));
+    assert!((glc.dfg_prime.as_ref().unwrap().value_kj + 426.71).abs() < 0.01);
+    let species = glc.species.as_ref().unwrap();
+    assert_eq!(species.entries.len(), 1);
+    assert_eq!(species.curve.len(), 61);
+    for name in ["GLCt", "ETOHt", "CO2t"] {
+        let r = report.reactions.iter().find(|r| r.id == name).unwrap();
+        assert!(
+            r.drg_prime.as_ref().unwrap().value_kj.abs() < 1e-9,
+            "{name}"
+        );
+    }
+    // The model's own ATP value wins over the library's, which is still matched by xref.
+    let atp = report.metabolites.iter().find(|m| m.id == "atp_c").unwrap();
+    assert_eq!(atp.energy_origin.as_deref(), Some("model"));
+    assert_eq!(atp.library_key.as_deref(), Some("atp"));
 }

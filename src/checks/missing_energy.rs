@@ -22,6 +22,7 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
             continue;
         };
         let ids: Vec<String> = missing
+            .metabolites
             .iter()
             .map(|&i| analysis.model.metabolites[i].id.clone())
             .collect();

@@ -483,6 +483,19 @@ fn metabolite(
         },
         None => None,
     };
+    if let Some(key) = &raw.library {
+        if crate::thermo::library::lookup_key(key).is_none() {
+            let keys = crate::thermo::library::Library::builtin()
+                .entries()
+                .iter()
+                .map(|e| e.key.as_str());
+            let d = r.at(&sub("library"), format!("unknown library entry `{key}`"));
+            if let Some(best) = did_you_mean(&key.to_lowercase(), keys) {
+                d.hint = Some(format!("did you mean `{best}`?"));
+            }
+            ok = false;
+        }
+    }
     let special = match raw.special.as_deref() {
         None => detect_special(raw.formula.as_deref(), raw.charge),
         Some("proton") => Special::Proton,

@@ -50,9 +50,9 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
             .filter(|t| t.is_ok())
             .count(),
         metabolites_with_energy: analysis
-            .metabolite_energy
+            .metabolites
             .iter()
-            .filter(|e| e.is_some())
+            .filter(|m| m.energy.is_some())
             .count(),
         by_kind,
         checks: crate::checks::REGISTRY
@@ -149,7 +149,8 @@ fn metabolite_views(model: &Model, analysis: &Analysis) -> Vec<MetaboliteView> {
                     .map(|j| model.reactions[j].id.clone())
                     .collect()
             };
-            let energy = analysis.metabolite_energy[i].as_ref();
+            let thermo = &analysis.metabolites[i];
+            let energy = thermo.energy.as_ref();
             let range = analysis.concentration(i);
             MetaboliteView {
                 id: m.id.clone(),
@@ -178,6 +179,9 @@ fn metabolite_views(model: &Model, analysis: &Analysis) -> Vec<MetaboliteView> {
                 xrefs: m.xrefs.clone(),
                 consumed_by: ids(consumers),
                 produced_by: ids(producers),
+                library_key: thermo.library_key.clone(),
+                energy_problem: thermo.problem.clone(),
+                species: thermo.species.as_ref().map(species_view),
             }
         })
         .collect()
@@ -272,9 +276,45 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                     })
                     .collect(),
                 missing_data: match &analysis.reaction_thermo[j] {
-                    Err(m) => m.iter().map(|&i| model.metabolites[i].id.clone()).collect(),
+                    Err(m) => m
+                        .metabolites
+                        .iter()
+                        .map(|&i| model.metabolites[i].id.clone())
+                        .collect(),
                     Ok(_) => Vec::new(),
                 },
+                missing_reasons: match &analysis.reaction_thermo[j] {
+                    Err(m) => m.reasons.clone(),
+                    Ok(_) => Vec::new(),
+                },
+                energy_terms: match thermo {
+                    Some(t) if t.origin == crate::analysis::EnergyOrigin::Formation => r
+                        .stoichiometry
+                        .iter()
+                        .filter_map(|&(i, c)| {
+                            let e = analysis.metabolite_energy(i)?;
+                            let m = &model.metabolites[i];
+                            Some(EnergyTermView {
+                                metabolite: m.id.clone(),
+                                slug: slug(&m.id),
+                                compartment: model.compartments[m.compartment].id.clone(),
+                                coefficient: c,
+                                dfg_prime_kj: e.value_kj,
+                                sigma_kj: e.sigma_kj,
+                                origin: e.origin.to_string(),
+                            })
+                        })
+                        .collect(),
+                    _ => Vec::new(),
+                },
+                transport: thermo
+                    .and_then(|t| t.transport.as_ref())
+                    .map(|b| TransportView {
+                        formation_sum_kj: b.formation_sum_kj,
+                        proton_term_kj: b.proton_term_kj,
+                        electrical_term_kj: b.electrical_term_kj,
+                        reference_independent: b.reference_independent,
+                    }),
             }
         })
         .collect()
@@ -309,4 +349,50 @@ fn scenario_views(model: &Model, analysis: &Analysis) -> Vec<ScenarioView> {
             view
         })
         .collect()
+}
+
+/// Species chart range: pH 4–10 in steps of 0.1 (where enzymes work).
+const CURVE_PH: (f64, f64, usize) = (4.0, 10.0, 60);
+
+fn species_view(s: &crate::thermo::metabolite::SpeciesSummary) -> SpeciesView {
+    SpeciesView {
+        entries: s
+            .species
+            .iter()
+            .enumerate()
+            .map(|(k, sp)| SpeciesEntryView {
+                label: match s.labels.get(k) {
+                    Some(l) if !l.is_empty() => l.clone(),
+                    _ => species_label(sp),
+                },
+                charge: sp.charge,
+                hydrogens: sp.hydrogens,
+                magnesium: sp.magnesium,
+                dfg0_kj: sp.dfg0_kj,
+                dfh0_kj: sp.dfh0_kj,
+                dfg_prime_kj: s.state.species_dfg_prime_kj.get(k).copied().flatten(),
+                fraction: s.state.fractions.get(k).copied().unwrap_or(0.0),
+            })
+            .collect(),
+        ph: s.conditions.ph,
+        ionic_strength_m: s.conditions.ionic_strength_m,
+        temperature_k: s.conditions.temperature_k,
+        pmg: s.conditions.pmg,
+        mean_hydrogens: s.state.mean_hydrogens,
+        mean_charge: s.state.mean_charge,
+        curve: crate::thermo::metabolite::distribution_curve(s, CURVE_PH.0, CURVE_PH.1, CURVE_PH.2)
+            .into_iter()
+            .map(|(ph, fractions)| CurvePoint { ph, fractions })
+            .collect(),
+        provenance: s.provenance.clone(),
+    }
+}
+
+/// "z = −2, nH = 11" style label for species without a name.
+fn species_label(sp: &crate::model::Species) -> String {
+    let mut label = format!("nH {}, z {:+}", sp.hydrogens, sp.charge);
+    if sp.magnesium > 0 {
+        label.push_str(&format!(", Mg {}", sp.magnesium));
+    }
+    label
 }

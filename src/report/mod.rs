@@ -183,6 +183,71 @@ pub struct MetaboliteView {
     /// Ids of reactions that consume / produce it.
     pub consumed_by: Vec<String>,
     pub produced_by: Vec<String>,
+    /// Built-in library entry matched (by key or cross-reference), if any.
+    pub library_key: Option<String>,
+    /// Why available data could not be used, if so.
+    pub energy_problem: Option<String>,
+    /// Species-level data and their distribution, when the energy came from
+    /// species (model or library).
+    pub species: Option<SpeciesView>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct SpeciesView {
+    pub entries: Vec<SpeciesEntryView>,
+    /// Conditions of the transform (the compartment's).
+    pub ph: f64,
+    pub ionic_strength_m: f64,
+    pub temperature_k: f64,
+    pub pmg: Option<f64>,
+    pub mean_hydrogens: f64,
+    pub mean_charge: f64,
+    /// Species mole fractions over pH 4–10: (pH, fraction of each entry).
+    pub curve: Vec<CurvePoint>,
+    /// Where each value comes from.
+    pub provenance: Vec<String>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct SpeciesEntryView {
+    /// Species name when known (e.g. "HATP3-"), else built from z and nH.
+    pub label: String,
+    pub charge: i32,
+    pub hydrogens: u32,
+    pub magnesium: u32,
+    pub dfg0_kj: f64,
+    pub dfh0_kj: Option<f64>,
+    /// Transformed ΔfG'° of the species at the compartment (None if left out).
+    pub dfg_prime_kj: Option<f64>,
+    /// Mole fraction at the compartment's conditions.
+    pub fraction: f64,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CurvePoint {
+    pub ph: f64,
+    pub fractions: Vec<f64>,
+}
+
+/// One term of Σ ν·ΔfG'°.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct EnergyTermView {
+    pub metabolite: String,
+    pub slug: String,
+    pub compartment: String,
+    pub coefficient: f64,
+    pub dfg_prime_kj: f64,
+    pub sigma_kj: f64,
+    pub origin: String,
+}
+
+/// Terms of ΔrG'° for a reaction spanning compartments.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct TransportView {
+    pub formation_sum_kj: f64,
+    pub proton_term_kj: f64,
+    pub electrical_term_kj: f64,
+    pub reference_independent: bool,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -230,6 +295,12 @@ pub struct ReactionView {
     pub scenario_verdicts: Vec<ScenarioVerdictView>,
     /// Metabolites whose missing data left this reaction without ΔrG'°.
     pub missing_data: Vec<String>,
+    /// Other reasons for a missing ΔrG'°.
+    pub missing_reasons: Vec<String>,
+    /// Σ ν·ΔfG'° term by term (when ΔrG'° comes from formation energies).
+    pub energy_terms: Vec<EnergyTermView>,
+    /// Proton and electrical terms of a transport step.
+    pub transport: Option<TransportView>,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]

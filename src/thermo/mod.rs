@@ -7,5 +7,6 @@ pub mod reaction;
 
 pub mod legendre;
 pub mod library;
+pub mod metabolite;
 pub mod transport;
 pub mod uncertainty;
