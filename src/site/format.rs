@@ -86,16 +86,16 @@ fn significant(v: f64, digits: i32) -> String {
     real_minus(s)
 }
 
-/// Any number: four significant digits, scientific notation outside
-/// 10⁻³ ≤ |v| < 10⁵.
+/// Any number: up to six significant digits (enough for 298.15 K or a
+/// bound of 1000), scientific notation outside 10⁻³ ≤ |v| < 10⁶.
 pub fn number(v: f64) -> String {
     if let Some(s) = non_finite(v) {
         return s;
     }
-    if v != 0.0 && (v.abs() < 1e-3 || v.abs() >= 1e5) {
+    if v != 0.0 && (v.abs() < 1e-3 || v.abs() >= 1e6) {
         return scientific(v);
     }
-    significant(v, 4)
+    significant(v, 6)
 }
 
 /// Scientific notation with three significant digits: "3.16 × 10⁻⁵".
@@ -235,7 +235,9 @@ mod tests {
     fn general_numbers_and_coefficients() {
         assert_eq!(number(-1.5), "−1.5");
         assert_eq!(number(1000.0), "1000");
-        assert_eq!(number(0.12345), "0.1235");
+        assert_eq!(number(0.12345), "0.12345");
+        assert_eq!(number(298.15), "298.15");
+        assert_eq!(number(-12.3456789), "−12.3457");
         assert_eq!(number(-2e6), "−2 × 10⁶");
         assert_eq!(number(0.0), "0");
         assert_eq!(coefficient(-1.0), "");

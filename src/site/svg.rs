@@ -52,7 +52,8 @@ impl Scale {
             hi = hi.max(v);
         }
         let span = hi - lo;
-        if !(span > 1e-9) {
+        // Also catches NaN (which `range_bar` filters out before).
+        if span.is_nan() || span <= 1e-9 {
             return Scale {
                 lo: lo - 1.0,
                 hi: hi + 1.0,
