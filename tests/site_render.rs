@@ -676,7 +676,8 @@ fn failed_render_keeps_the_previous_site_and_leaves_no_temporary_folder() {
     let err = render(&fixture(), Some(&theme), &out).unwrap_err();
     match &err {
         Error::Render { template, message } => {
-            assert_eq!(template, "reaction.html");
+            // Named by its path, so the user knows it is their file.
+            assert_eq!(template, &theme.join("reaction.html").display().to_string());
             assert!(message.contains("undefined"), "{message}");
             assert!(
                 message.contains("while writing page reactions/"),
@@ -792,4 +793,26 @@ fn reaction_page_snapshot() {
     let expected =
         fs::read_to_string(&path).expect("snapshot missing: run with UPDATE_SNAPSHOTS=1");
     assert_eq!(format!("{main}\n"), expected);
+}
+
+#[test]
+fn an_empty_report_renders_without_notes_pages() {
+    let tmp = tempfile::tempdir().unwrap();
+    let mut report = fixture();
+    report.findings.clear();
+    report.reactions.clear();
+    report.metabolites.clear();
+    report.scenarios.clear();
+    report.compartments.clear();
+    report.notes.clear();
+    report.summary.reactions = 0;
+    report.summary.metabolites = 0;
+    let out = tmp.path().join("site");
+    render(&report, None, &out).unwrap();
+    let tree = read_tree(&out);
+    assert!(!tree.keys().any(|k| k.starts_with("notes/")));
+    let index = String::from_utf8(tree["index.html"].clone()).unwrap();
+    assert!(index.contains("No errors or warnings."));
+    assert!(index.contains("The project defines no flux scenarios."));
+    assert!(!index.contains("notes/index.html"), "no dead Notes link");
 }

@@ -6,7 +6,7 @@
 //! with an absolute URL become plain links so opening a page never makes a
 //! network request.
 
-use pulldown_cmark::{html, CowStr, Event, LinkType, Options, Parser, Tag, TagEnd};
+use pulldown_cmark::{html, CodeBlockKind, CowStr, Event, LinkType, Options, Parser, Tag, TagEnd};
 
 /// What to do with the end event of an open link or image.
 enum Open {
@@ -24,6 +24,9 @@ pub fn to_html(markdown: &str) -> String {
     let mut open: Vec<Open> = Vec::new();
     let events = Parser::new_ext(markdown, options).filter_map(|event| match event {
         Event::Html(raw) | Event::InlineHtml(raw) => Some(Event::Text(raw)),
+        // An HTML block is shown as the source the author wrote.
+        Event::Start(Tag::HtmlBlock) => Some(Event::Start(Tag::CodeBlock(CodeBlockKind::Indented))),
+        Event::End(TagEnd::HtmlBlock) => Some(Event::End(TagEnd::CodeBlock)),
         Event::Start(Tag::Link {
             link_type,
             dest_url,

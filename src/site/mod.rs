@@ -57,7 +57,7 @@ pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(
         staging.write(&format!("assets/{name}"), bytes)?;
     }
     for page in pages(&sorted) {
-        let html = render_page(&env, &page)?;
+        let html = render_page(&env, &theme, &page)?;
         staging.write(&page.path, html.as_bytes())?;
     }
     staging.commit()
@@ -75,7 +75,7 @@ fn environment(theme: &Theme) -> Result<Environment<'static>, Error> {
     format::register(&mut env);
     for (name, source) in theme.templates()? {
         env.add_template_owned(name.to_owned(), source.to_owned())
-            .map_err(|e| template_error(name, &e))?;
+            .map_err(|e| template_error(theme, name, &e))?;
     }
     Ok(env)
 }
@@ -87,13 +87,13 @@ struct Page {
     context: Value,
 }
 
-fn render_page(env: &Environment<'_>, page: &Page) -> Result<String, Error> {
+fn render_page(env: &Environment<'_>, theme: &Theme, page: &Page) -> Result<String, Error> {
     let template = env
         .get_template(page.template)
-        .map_err(|e| template_error(page.template, &e))?;
+        .map_err(|e| template_error(theme, page.template, &e))?;
     template
         .render(&page.context)
-        .map_err(|e| template_error(page.template, &e))
+        .map_err(|e| template_error(theme, page.template, &e))
         .map_err(|e| match e {
             Error::Render { template, message } => Error::Render {
                 template,
@@ -103,8 +103,9 @@ fn render_page(env: &Environment<'_>, page: &Page) -> Result<String, Error> {
         })
 }
 
-/// A template error with minijinja's location and its cause chain.
-fn template_error(page_template: &str, err: &minijinja::Error) -> Error {
+/// A template error naming the file it came from (user theme or default),
+/// with minijinja's location and the cause chain.
+fn template_error(theme: &Theme, page_template: &str, err: &minijinja::Error) -> Error {
     let mut message = err.to_string();
     let mut source = std::error::Error::source(err);
     while let Some(cause) = source {
@@ -112,7 +113,7 @@ fn template_error(page_template: &str, err: &minijinja::Error) -> Error {
         source = cause.source();
     }
     Error::Render {
-        template: err.name().unwrap_or(page_template).to_owned(),
+        template: theme.describe(err.name().unwrap_or(page_template)),
         message,
     }
 }

@@ -8,7 +8,7 @@ use crate::error::Error;
 use std::borrow::Cow;
 use std::collections::BTreeMap;
 use std::fs;
-use std::path::Path;
+use std::path::{Path, PathBuf};
 
 macro_rules! embed {
     ($($name:literal),* $(,)?) => {
@@ -39,6 +39,8 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
 #[derive(Debug, Clone)]
 pub struct Theme {
     files: BTreeMap<String, Cow<'static, [u8]>>,
+    /// Names that came from the user's folder, with their path on disk.
+    user_files: BTreeMap<String, PathBuf>,
 }
 
 impl Theme {
@@ -48,14 +50,25 @@ impl Theme {
             .iter()
             .map(|(name, bytes)| (name.to_string(), Cow::Borrowed(*bytes)))
             .collect();
+        let mut user_files = BTreeMap::new();
         if let Some(dir) = user_dir {
             let mut user = BTreeMap::new();
             read_dir_recursive(dir, "", &mut user)?;
-            for (name, bytes) in user {
-                files.insert(name, Cow::Owned(bytes));
+            for (name, (path, bytes)) in user {
+                files.insert(name.clone(), Cow::Owned(bytes));
+                user_files.insert(name, path);
             }
         }
-        Ok(Theme { files })
+        Ok(Theme { files, user_files })
+    }
+
+    /// Where a theme file comes from, for error messages: the user's file
+    /// path, or the name with "(default theme)".
+    pub fn describe(&self, name: &str) -> String {
+        match self.user_files.get(name) {
+            Some(path) => path.display().to_string(),
+            None => format!("{name} (default theme)"),
+        }
     }
 
     /// Templates (`*.html`) as text, sorted by name.
@@ -67,7 +80,7 @@ impl Theme {
                 std::str::from_utf8(bytes)
                     .map(|text| (name.as_str(), text))
                     .map_err(|e| Error::Render {
-                        template: name.clone(),
+                        template: self.describe(name),
                         message: format!("the template is not valid UTF-8 ({e})"),
                     })
             })
@@ -93,7 +106,7 @@ fn is_template(name: &str) -> bool {
 fn read_dir_recursive(
     dir: &Path,
     prefix: &str,
-    out: &mut BTreeMap<String, Vec<u8>>,
+    out: &mut BTreeMap<String, (PathBuf, Vec<u8>)>,
 ) -> Result<(), Error> {
     let entries = fs::read_dir(dir).map_err(|e| Error::io(dir, e))?;
     for entry in entries {
@@ -117,7 +130,7 @@ fn read_dir_recursive(
             read_dir_recursive(&path, &format!("{name}/"), out)?;
         } else {
             let bytes = fs::read(&path).map_err(|e| Error::io(&path, e))?;
-            out.insert(name, bytes);
+            out.insert(name, (path, bytes));
         }
     }
     Ok(())
