@@ -1,11 +1,480 @@
-//! Rendering a Report into a static site (the full renderer lands on its own branch).
+//! Rendering a [`Report`] into a static site.
+//!
+//! Templates (minijinja, in `themes/default/`, embedded in the binary and
+//! overridable file by file) receive one serialisable context per page:
+//! `report` (the whole Report), `site` (lookups derived from it: finding
+//! anchors, subject links, findings per reaction/metabolite), `page` (path,
+//! `path_to_root`, section) and, on entity pages, `item`. They never see
+//! model types. Output is deterministic: collections are sorted before
+//! rendering, and the only time shown is `report.tool.generated`.
+//!
+//! Site layout (all links relative, so it works from `file://` and under
+//! any sub-path):
+//!
+//! ```text
+//! index.html  findings.html  report.json  assets/<theme assets>
+//! reactions/index.html  reactions/<slug>.html
+//! metabolites/index.html  metabolites/<slug>.html
+//! notes/index.html  notes/<slug>.html      (when the project has notes)
+//! ```
 
-use crate::error::{Error, Result};
-use crate::report::Report;
+pub mod format;
+pub mod markdown;
+pub mod svg;
+pub mod theme;
+pub mod write;
+
+use crate::error::Error;
+use crate::report::{Finding, Report, Severity};
+use minijinja::value::Value;
+use minijinja::{context, AutoEscape, Environment, UndefinedBehavior};
+use serde::Serialize;
+use std::collections::{BTreeMap, BTreeSet};
 use std::path::Path;
+use theme::Theme;
+use write::Staging;
 
-pub fn render(report: &Report, _theme_dir: Option<&Path>, out: &Path) -> Result<()> {
-    std::fs::create_dir_all(out).map_err(|e| Error::io(out, e))?;
-    let path = out.join("report.json");
-    std::fs::write(&path, crate::report::json::to_json(report)).map_err(|e| Error::io(&path, e))
+/// Renders `report` into the folder `out`, using the default theme with the
+/// files of `theme_dir` laid over it.
+///
+/// The site is written to a temporary folder beside `out` and renamed into
+/// place only when every page succeeded; on error the previous site (if
+/// any) is untouched and no temporary folder remains. A non-empty `out`
+/// that was not made by gibbsite is never replaced.
+pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(), Error> {
+    let theme = Theme::load(theme_dir)?;
+    let env = environment(&theme)?;
+    let sorted = sorted_report(report);
+    check_slugs(&sorted)?;
+
+    let staging = Staging::new(out)?;
+    let json = serde_json::to_string_pretty(report).map_err(|e| Error::Render {
+        template: "report.json".into(),
+        message: e.to_string(),
+    })?;
+    staging.write("report.json", format!("{json}\n").as_bytes())?;
+    for (name, bytes) in theme.assets() {
+        staging.write(&format!("assets/{name}"), bytes)?;
+    }
+    for page in pages(&sorted) {
+        let html = render_page(&env, &theme, &page)?;
+        staging.write(&page.path, html.as_bytes())?;
+    }
+    staging.commit()
+}
+
+/// The minijinja environment with every theme template and our filters.
+fn environment(theme: &Theme) -> Result<Environment<'static>, Error> {
+    let mut env = Environment::new();
+    // Every template produces HTML, whatever its name: escape always.
+    env.set_auto_escape_callback(|_| AutoEscape::Html);
+    // A misspelt field is an error, not a silently empty cell.
+    env.set_undefined_behavior(UndefinedBehavior::Strict);
+    env.set_trim_blocks(true);
+    env.set_lstrip_blocks(true);
+    format::register(&mut env);
+    for (name, source) in theme.templates()? {
+        env.add_template_owned(name.to_owned(), source.to_owned())
+            .map_err(|e| template_error(theme, name, &e))?;
+    }
+    Ok(env)
+}
+
+/// One page to write: template, output path and page-specific context.
+struct Page {
+    template: &'static str,
+    path: String,
+    context: Value,
+}
+
+fn render_page(env: &Environment<'_>, theme: &Theme, page: &Page) -> Result<String, Error> {
+    let template = env
+        .get_template(page.template)
+        .map_err(|e| template_error(theme, page.template, &e))?;
+    template
+        .render(&page.context)
+        .map_err(|e| template_error(theme, page.template, &e))
+        .map_err(|e| match e {
+            Error::Render { template, message } => Error::Render {
+                template,
+                message: format!("{message}\n  while writing page {}", page.path),
+            },
+            other => other,
+        })
+}
+
+/// A template error naming the file it came from (user theme or default),
+/// with minijinja's location and the cause chain.
+fn template_error(theme: &Theme, page_template: &str, err: &minijinja::Error) -> Error {
+    let mut message = err.to_string();
+    let mut source = std::error::Error::source(err);
+    while let Some(cause) = source {
+        message.push_str(&format!("\n  caused by: {cause}"));
+        source = cause.source();
+    }
+    Error::Render {
+        template: theme.describe(err.name().unwrap_or(page_template)),
+        message,
+    }
+}
+
+/// A copy of the report with every collection in a fixed order, so the
+/// same report always gives the same bytes whatever order analysis used.
+fn sorted_report(report: &Report) -> Report {
+    let mut r = report.clone();
+    r.findings.sort_by(|a, b| {
+        (
+            a.severity,
+            &a.kind,
+            a.subjects.first(),
+            &a.scenario,
+            &a.message,
+        )
+            .cmp(&(
+                b.severity,
+                &b.kind,
+                b.subjects.first(),
+                &b.scenario,
+                &b.message,
+            ))
+    });
+    r.compartments.sort_by(|a, b| a.id.cmp(&b.id));
+    r.scenarios.sort_by(|a, b| a.id.cmp(&b.id));
+    r.metabolites.sort_by(|a, b| a.id.cmp(&b.id));
+    for m in &mut r.metabolites {
+        for list in [&mut m.consumed_by, &mut m.produced_by] {
+            list.sort();
+            list.dedup();
+        }
+        for ids in m.xrefs.values_mut() {
+            ids.sort();
+        }
+    }
+    r.reactions.sort_by(|a, b| a.id.cmp(&b.id));
+    for reaction in &mut r.reactions {
+        // Participants keep the equation's order; the rest is sorted.
+        reaction
+            .scenario_verdicts
+            .sort_by(|a, b| a.scenario.cmp(&b.scenario));
+        reaction.missing_data.sort();
+    }
+    r
+}
+
+/// Slugs become file names: they must be safe and distinct.
+fn check_slugs(report: &Report) -> Result<(), Error> {
+    let groups: [(&str, Vec<(&str, &str)>); 3] = [
+        (
+            "reaction",
+            report
+                .reactions
+                .iter()
+                .map(|r| (r.id.as_str(), r.slug.as_str()))
+                .collect(),
+        ),
+        (
+            "metabolite",
+            report
+                .metabolites
+                .iter()
+                .map(|m| (m.id.as_str(), m.slug.as_str()))
+                .collect(),
+        ),
+        (
+            "note",
+            report
+                .notes
+                .iter()
+                .map(|n| (n.title.as_str(), n.slug.as_str()))
+                .collect(),
+        ),
+    ];
+    for (what, entries) in groups {
+        let mut seen = BTreeSet::new();
+        for (id, slug) in entries {
+            let safe = !slug.is_empty()
+                && slug.len() <= 200
+                && slug.chars().all(|c| c.is_ascii_alphanumeric() || c == '_' || c == '-')
+                // `index` is the list page of each folder.
+                && slug != "index";
+            if !safe {
+                return Err(Error::Render {
+                    template: format!("{what} pages"),
+                    message: format!("the {what} {id:?} has an unsafe page name {slug:?}"),
+                });
+            }
+            if !seen.insert(slug.to_ascii_lowercase()) {
+                return Err(Error::Render {
+                    template: format!("{what} pages"),
+                    message: format!(
+                        "two {what}s share the page name {slug:?} (names differing only in case \
+                         collide on some file systems)"
+                    ),
+                });
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Link target of a finding subject.
+#[derive(Serialize)]
+struct SubjectLink<'a> {
+    id: &'a str,
+    /// "reaction", "metabolite" or "" when the id has no page (e.g. a loop).
+    kind: &'static str,
+    slug: &'a str,
+}
+
+#[derive(Serialize)]
+struct FindingEntry<'a> {
+    /// Fragment id on findings.html.
+    anchor: String,
+    #[serde(flatten)]
+    finding: &'a Finding,
+    links: Vec<SubjectLink<'a>>,
+}
+
+#[derive(Serialize)]
+struct EntityRef<'a> {
+    slug: &'a str,
+    name: &'a str,
+}
+
+/// Lookups derived from the report, shared by every page.
+#[derive(Serialize)]
+struct SiteIndex<'a> {
+    findings: Vec<FindingEntry<'a>>,
+    /// Indices into `findings`, for every reaction / metabolite id.
+    reaction_findings: BTreeMap<&'a str, Vec<usize>>,
+    metabolite_findings: BTreeMap<&'a str, Vec<usize>>,
+    reactions: BTreeMap<&'a str, EntityRef<'a>>,
+    metabolites: BTreeMap<&'a str, EntityRef<'a>>,
+    /// Finding counts by severity slug, for every reaction id.
+    reaction_counts: BTreeMap<&'a str, BTreeMap<&'static str, usize>>,
+}
+
+fn site_index(report: &Report) -> SiteIndex<'_> {
+    let reactions: BTreeMap<&str, EntityRef> = report
+        .reactions
+        .iter()
+        .map(|r| {
+            (
+                r.id.as_str(),
+                EntityRef {
+                    slug: &r.slug,
+                    name: &r.name,
+                },
+            )
+        })
+        .collect();
+    let metabolites: BTreeMap<&str, EntityRef> = report
+        .metabolites
+        .iter()
+        .map(|m| {
+            (
+                m.id.as_str(),
+                EntityRef {
+                    slug: &m.slug,
+                    name: &m.name,
+                },
+            )
+        })
+        .collect();
+    let mut reaction_findings: BTreeMap<&str, Vec<usize>> =
+        reactions.keys().map(|id| (*id, Vec::new())).collect();
+    let mut metabolite_findings: BTreeMap<&str, Vec<usize>> =
+        metabolites.keys().map(|id| (*id, Vec::new())).collect();
+    let mut reaction_counts: BTreeMap<&str, BTreeMap<&'static str, usize>> = reactions
+        .keys()
+        .map(|id| {
+            let zero = [Severity::Error, Severity::Warning, Severity::Note]
+                .map(|s| (s.slug(), 0))
+                .into();
+            (*id, zero)
+        })
+        .collect();
+    let mut findings = Vec::with_capacity(report.findings.len());
+    for (index, finding) in report.findings.iter().enumerate() {
+        let mut links = Vec::new();
+        let mut seen = BTreeSet::new();
+        for id in &finding.subjects {
+            let link = if let Some(r) = reactions.get(id.as_str()) {
+                if seen.insert(("r", id.as_str())) {
+                    reaction_findings.entry(id).or_default().push(index);
+                    *reaction_counts
+                        .entry(id)
+                        .or_default()
+                        .entry(finding.severity.slug())
+                        .or_default() += 1;
+                }
+                SubjectLink {
+                    id,
+                    kind: "reaction",
+                    slug: r.slug,
+                }
+            } else if let Some(m) = metabolites.get(id.as_str()) {
+                if seen.insert(("m", id.as_str())) {
+                    metabolite_findings.entry(id).or_default().push(index);
+                }
+                SubjectLink {
+                    id,
+                    kind: "metabolite",
+                    slug: m.slug,
+                }
+            } else {
+                SubjectLink {
+                    id,
+                    kind: "",
+                    slug: "",
+                }
+            };
+            links.push(link);
+        }
+        findings.push(FindingEntry {
+            anchor: format!("finding-{}", index + 1),
+            finding,
+            links,
+        });
+    }
+    SiteIndex {
+        findings,
+        reaction_findings,
+        metabolite_findings,
+        reactions,
+        metabolites,
+        reaction_counts,
+    }
+}
+
+/// Every page of the site with its context.
+fn pages(report: &Report) -> Vec<Page> {
+    let report_value = Value::from_serialize(report);
+    let index = site_index(report);
+    let site_value = Value::from_serialize(&index);
+    // Findings of one page as values shared with `site.findings`.
+    let all_findings = site_value.get_attr("findings").unwrap_or_default();
+    let findings_of = |indices: Option<&Vec<usize>>| -> Value {
+        indices
+            .into_iter()
+            .flatten()
+            .filter_map(|&i| all_findings.get_item_by_index(i).ok())
+            .collect()
+    };
+    let page = |template: &'static str, path: String, section: &str, title: &str, extra: Value| {
+        let depth = path.matches('/').count();
+        // Our own value, not model data: safe, so `/` is not escaped in hrefs.
+        let root = Value::from_safe_string("../".repeat(depth));
+        let info = context! {
+            path => path.clone(),
+            path_to_root => root.clone(),
+            section => section,
+            title => title,
+        };
+        Page {
+            template,
+            path,
+            context: context! {
+                report => report_value.clone(),
+                site => site_value.clone(),
+                page => info,
+                path_to_root => root,
+                ..extra
+            },
+        }
+    };
+
+    let mut out = vec![
+        page(
+            "index.html",
+            "index.html".into(),
+            "overview",
+            "Overview",
+            context! {},
+        ),
+        page(
+            "findings.html",
+            "findings.html".into(),
+            "findings",
+            "Findings",
+            context! {},
+        ),
+        page(
+            "reactions.html",
+            "reactions/index.html".into(),
+            "reactions",
+            "Reactions",
+            context! {},
+        ),
+        page(
+            "metabolites.html",
+            "metabolites/index.html".into(),
+            "metabolites",
+            "Metabolites",
+            context! {},
+        ),
+    ];
+    let multiplier = report.project.sigma_multiplier;
+    for reaction in &report.reactions {
+        let bar = reaction.dg_range.map(|range| {
+            svg::range_bar(
+                &reaction.id,
+                &svg::RangeBar {
+                    min: range.min,
+                    max: range.max,
+                    allowance: reaction
+                        .drg_prime
+                        .as_ref()
+                        .map_or(0.0, |e| multiplier * e.sigma_kj),
+                    standard: reaction.drg_prime.as_ref().map(|e| e.value_kj),
+                    measured: reaction.dg_measured,
+                },
+            )
+        });
+        out.push(page(
+            "reaction.html",
+            format!("reactions/{}.html", reaction.slug),
+            "reactions",
+            &reaction.id,
+            context! {
+                item => Value::from_serialize(reaction),
+                findings => findings_of(index.reaction_findings.get(reaction.id.as_str())),
+                range_bar => bar.map(Value::from_safe_string),
+            },
+        ));
+    }
+    for metabolite in &report.metabolites {
+        out.push(page(
+            "metabolite.html",
+            format!("metabolites/{}.html", metabolite.slug),
+            "metabolites",
+            &metabolite.id,
+            context! {
+                item => Value::from_serialize(metabolite),
+                findings => findings_of(index.metabolite_findings.get(metabolite.id.as_str())),
+            },
+        ));
+    }
+    if !report.notes.is_empty() {
+        out.push(page(
+            "notes.html",
+            "notes/index.html".into(),
+            "notes",
+            "Notes",
+            context! {},
+        ));
+    }
+    for note in &report.notes {
+        out.push(page(
+            "note.html",
+            format!("notes/{}.html", note.slug),
+            "notes",
+            &note.title,
+            context! {
+                item => Value::from_serialize(note),
+                body => Value::from_safe_string(markdown::to_html(&note.markdown)),
+            },
+        ));
+    }
+    out
 }

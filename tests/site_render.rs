@@ -1,0 +1,818 @@
+//! Rendering a hand-built Report into a site: files, links, escaping, the
+//! ΔG' bar, theme overrides, all-or-nothing output and determinism.
+//!
+//! The report is fixture data for the renderer (no analysis runs here).
+//! Only the ATP hydrolysis ΔrG'° is a published value; every other number is
+//! invented for the test.
+
+use gibbsite::report::*;
+use gibbsite::site::{render, theme::DEFAULT_THEME, write::MARKER_FILE};
+use gibbsite::slug::slug;
+use gibbsite::Error;
+use std::collections::BTreeMap;
+use std::fs;
+use std::path::{Component, Path, PathBuf};
+
+const HOSTILE_REACTION: &str = "R_<b>&\"'../x";
+const HOSTILE_METABOLITE: &str = "M_<b>&\"'../evil";
+const CAUTION: &str = "ΔG estimates carry uncertainty; a flagged contradiction is a prompt for \
+expert review against measurements and the literature, not a verdict on the biology.";
+/// ATP + H2O = ADP + Pi at 298.15 K, pH 7, I = 0.25 M: ΔrG'° = −36.0353 kJ/mol
+/// (Alberty 2003, Thermodynamics of Biochemical Reactions, printed p. 220).
+const ATP_HYDROLYSIS_DRG: f64 = -36.0353;
+
+fn energy(value_kj: f64, sigma_kj: f64, source: &str) -> Option<EnergyView> {
+    Some(EnergyView {
+        value_kj,
+        sigma_kj,
+        source: source.into(),
+    })
+}
+
+fn participant(id: &str, name: &str, coefficient: f64) -> ParticipantView {
+    ParticipantView {
+        metabolite: id.into(),
+        slug: slug(id),
+        name: name.into(),
+        coefficient,
+    }
+}
+
+fn metabolite(id: &str, name: &str, consumed: &[&str], produced: &[&str]) -> MetaboliteView {
+    MetaboliteView {
+        id: id.into(),
+        slug: slug(id),
+        name: name.into(),
+        compartment: "c".into(),
+        formula: Some("C10H12N5O13P3".into()),
+        charge: Some(-4),
+        dfg_prime: energy(-2292.61, 1.5, "invented"),
+        energy_origin: Some("library".into()),
+        concentration_m: RangeView {
+            min: 1e-6,
+            max: 0.02,
+        },
+        concentration_is_default: true,
+        measured_m: None,
+        special: String::new(),
+        xrefs: BTreeMap::new(),
+        consumed_by: consumed.iter().map(|s| s.to_string()).collect(),
+        produced_by: produced.iter().map(|s| s.to_string()).collect(),
+    }
+}
+
+fn finding(
+    kind: &str,
+    severity: Severity,
+    subjects: &[&str],
+    scenario: Option<&str>,
+    message: &str,
+) -> Finding {
+    Finding {
+        kind: kind.into(),
+        severity,
+        subjects: subjects.iter().map(|s| s.to_string()).collect(),
+        scenario: scenario.map(str::to_owned),
+        message: message.into(),
+        evidence: BTreeMap::from([("dg_max".to_string(), -20.0), ("dg_min".to_string(), -60.0)]),
+    }
+}
+
+/// 3 reactions, 4 metabolites, one finding per severity, one note with raw
+/// HTML, and ids full of HTML and path characters.
+fn fixture() -> Report {
+    let atph = ReactionView {
+        id: "ATPH".into(),
+        slug: slug("ATPH"),
+        name: "ATP hydrolysis".into(),
+        equation: "atp_c -> adp_c + pi_c".into(),
+        participants: vec![
+            participant("atp_c", "ATP", -1.0),
+            participant("adp_c", "ADP", 1.0),
+            participant("pi_c", "phosphate", 1.0),
+        ],
+        reversible: true,
+        lower_bound: -1000.0,
+        upper_bound: 1000.0,
+        role: "internal".into(),
+        group: Some("energy".into()),
+        drg_prime: energy(ATP_HYDROLYSIS_DRG, 0.5, "Alberty 2003, p. 220"),
+        energy_origin: Some("reaction".into()),
+        k_prime: Some(2.05e6),
+        dg_range: Some(RangeView {
+            min: -60.0,
+            max: -20.0,
+        }),
+        dg_measured: Some(-45.0),
+        forward_verdict: Some(Verdict::Consistent),
+        backward_verdict: Some(Verdict::Contradiction),
+        scenario_verdicts: vec![ScenarioVerdictView {
+            scenario: "growth".into(),
+            flux: -2.5,
+            verdict: Verdict::Contradiction,
+        }],
+        missing_data: vec![],
+    };
+    let hostile = ReactionView {
+        id: HOSTILE_REACTION.into(),
+        slug: slug(HOSTILE_REACTION),
+        name: "<b>bold</b> & \"quoted\" 'single'".into(),
+        equation: format!("adp_c -> {HOSTILE_METABOLITE}"),
+        participants: vec![
+            participant("adp_c", "ADP", -2.0),
+            participant(HOSTILE_METABOLITE, "<b>evil</b>", 1.0),
+        ],
+        reversible: true,
+        lower_bound: -10.0,
+        upper_bound: 10.0,
+        role: "internal".into(),
+        group: None,
+        drg_prime: energy(12.5, 2.0, "<b>invented</b>"),
+        energy_origin: Some("formation".into()),
+        k_prime: Some(6.46e-3),
+        dg_range: Some(RangeView {
+            min: -10.0,
+            max: 30.0,
+        }),
+        dg_measured: None,
+        forward_verdict: Some(Verdict::Marginal),
+        backward_verdict: Some(Verdict::Consistent),
+        scenario_verdicts: vec![],
+        missing_data: vec![],
+    };
+    let unknown = ReactionView {
+        id: "UNK".into(),
+        slug: slug("UNK"),
+        name: "Unknown energy".into(),
+        equation: format!("{HOSTILE_METABOLITE} -> pi_c"),
+        participants: vec![
+            participant(HOSTILE_METABOLITE, "<b>evil</b>", -1.0),
+            participant("pi_c", "phosphate", 1.0),
+        ],
+        reversible: false,
+        lower_bound: 0.0,
+        upper_bound: 1000.0,
+        role: "internal".into(),
+        group: None,
+        drg_prime: None,
+        energy_origin: None,
+        k_prime: None,
+        dg_range: None,
+        dg_measured: None,
+        forward_verdict: Some(Verdict::NoData),
+        backward_verdict: None,
+        scenario_verdicts: vec![],
+        missing_data: vec![HOSTILE_METABOLITE.into()],
+    };
+    let mut evil = metabolite(
+        HOSTILE_METABOLITE,
+        "<b>evil</b>",
+        &["UNK"],
+        &[HOSTILE_REACTION],
+    );
+    evil.dfg_prime = None;
+    evil.energy_origin = None;
+    evil.formula = Some("<b>C</b>".into());
+    evil.xrefs = BTreeMap::from([("<b>db</b>".to_string(), vec!["<b>1</b>".to_string()])]);
+    let mut atp = metabolite("atp_c", "ATP", &["ATPH"], &[]);
+    atp.concentration_is_default = false;
+    atp.concentration_m = RangeView {
+        min: 1e-3,
+        max: 1e-2,
+    };
+    atp.measured_m = Some(3e-3);
+    atp.xrefs = BTreeMap::from([("chebi".to_string(), vec!["CHEBI:30616".to_string()])]);
+    let findings = vec![
+        finding(
+            "direction-contradiction",
+            Severity::Error,
+            &["ATPH"],
+            Some("growth"),
+            "ATPH runs backward in scenario growth although ΔG' < 0 for all allowed concentrations.",
+        ),
+        finding(
+            "unbalanced-reaction",
+            Severity::Warning,
+            &[HOSTILE_REACTION, HOSTILE_METABOLITE],
+            None,
+            "Reaction <b>x</b> is not mass balanced.",
+        ),
+        finding(
+            "default-concentration",
+            Severity::Note,
+            &["atp_c", "loop-1"],
+            None,
+            "NOTE-ONLY-MESSAGE uses the default range.",
+        ),
+    ];
+    Report {
+        schema_version: REPORT_SCHEMA_VERSION,
+        tool: ToolInfo {
+            name: "gibbsite".into(),
+            version: "0.1.0".into(),
+            generated: "2024-01-01T00:00:00Z".into(),
+        },
+        project: ProjectInfo {
+            title: "Demo <b>project</b>".into(),
+            model_id: "demo".into(),
+            model_title: "Demo model".into(),
+            temperature_k: 298.15,
+            confidence: 0.95,
+            sigma_multiplier: 1.96,
+            min_driving_force_kj: 1.0,
+            default_concentration_m: RangeView {
+                min: 1e-6,
+                max: 0.02,
+            },
+            caution: CAUTION.into(),
+        },
+        summary: Summary {
+            reactions: 3,
+            internal_reactions: 3,
+            metabolites: 4,
+            compartments: 1,
+            scenarios: 1,
+            errors: 1,
+            warnings: 1,
+            notes: 1,
+            reactions_with_energy: 2,
+            metabolites_with_energy: 3,
+            by_kind: BTreeMap::from([
+                ("default-concentration".to_string(), 1),
+                ("direction-contradiction".to_string(), 1),
+                ("unbalanced-reaction".to_string(), 1),
+            ]),
+            checks: vec![CheckInfo {
+                slug: "direction-contradiction".into(),
+                title: "Flux directions".into(),
+                description: "Directions that need ΔG' < 0 where the data say ΔG' > 0.".into(),
+            }],
+        },
+        findings,
+        compartments: vec![CompartmentView {
+            id: "c".into(),
+            name: "cytosol".into(),
+            ph: 7.0,
+            ionic_strength_m: 0.25,
+            potential_mv: 0.0,
+            temperature_k: 298.15,
+            pmg: None,
+        }],
+        metabolites: vec![
+            metabolite("pi_c", "phosphate", &[], &["ATPH", "UNK"]),
+            atp,
+            metabolite("adp_c", "ADP", &[HOSTILE_REACTION], &["ATPH"]),
+            evil,
+        ],
+        reactions: vec![unknown, atph, hostile],
+        scenarios: vec![ScenarioView {
+            id: "growth".into(),
+            description: "Aerobic growth (invented)".into(),
+            active_reactions: 2,
+            contradictions: 1,
+            marginal: 0,
+            consistent: 1,
+            no_data: 0,
+        }],
+        notes: vec![NoteView {
+            slug: "review".into(),
+            title: "Review <notes>".into(),
+            markdown: "# Review\n\nSome *emphasis*.\n\n<script>alert(1)</script>\n\n\
+                       Inline <b>bold</b> tag.\n\n[ATP hydrolysis](../reactions/ATPH.html)\n\n\
+                       ![remote picture](https://example.org/pic.png)\n"
+                .into(),
+        }],
+    }
+}
+
+/// Every file below `dir`, by relative path with `/` separators.
+fn read_tree(dir: &Path) -> BTreeMap<String, Vec<u8>> {
+    fn walk(root: &Path, dir: &Path, out: &mut BTreeMap<String, Vec<u8>>) {
+        for entry in fs::read_dir(dir).unwrap() {
+            let path = entry.unwrap().path();
+            if path.is_dir() {
+                walk(root, &path, out);
+            } else {
+                let rel = path.strip_prefix(root).unwrap();
+                let name = rel
+                    .components()
+                    .map(|c| c.as_os_str().to_str().unwrap())
+                    .collect::<Vec<_>>()
+                    .join("/");
+                out.insert(name, fs::read(&path).unwrap());
+            }
+        }
+    }
+    let mut out = BTreeMap::new();
+    walk(dir, dir, &mut out);
+    out
+}
+
+fn html_pages(tree: &BTreeMap<String, Vec<u8>>) -> Vec<(&str, String)> {
+    tree.iter()
+        .filter(|(name, _)| name.ends_with(".html"))
+        .map(|(name, bytes)| (name.as_str(), String::from_utf8(bytes.clone()).unwrap()))
+        .collect()
+}
+
+/// Values of `attr="…"` in `html`, with the entities minijinja writes decoded.
+fn attribute_values(html: &str, attr: &str) -> Vec<String> {
+    let needle = format!(" {attr}=\"");
+    let mut out = Vec::new();
+    let mut rest = html;
+    while let Some(start) = rest.find(&needle) {
+        rest = &rest[start + needle.len()..];
+        let end = rest.find('"').unwrap();
+        out.push(
+            rest[..end]
+                .replace("&#x2f;", "/")
+                .replace("&#x27;", "'")
+                .replace("&quot;", "\"")
+                .replace("&lt;", "<")
+                .replace("&gt;", ">")
+                .replace("&amp;", "&"),
+        );
+        rest = &rest[end..];
+    }
+    out
+}
+
+fn render_fixture(out: &Path) {
+    render(&fixture(), None, out).expect("the fixture renders");
+}
+
+#[test]
+fn all_expected_files_exist_and_nothing_else() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let tree = read_tree(&out);
+    let mut expected: Vec<String> = [
+        MARKER_FILE,
+        "index.html",
+        "findings.html",
+        "report.json",
+        "assets/style.css",
+        "assets/table.js",
+        "reactions/index.html",
+        "reactions/ATPH.html",
+        "reactions/UNK.html",
+        "metabolites/index.html",
+        "metabolites/atp_c.html",
+        "metabolites/adp_c.html",
+        "metabolites/pi_c.html",
+        "notes/index.html",
+        "notes/review.html",
+    ]
+    .iter()
+    .map(|s| s.to_string())
+    .collect();
+    expected.push(format!("reactions/{}.html", slug(HOSTILE_REACTION)));
+    expected.push(format!("metabolites/{}.html", slug(HOSTILE_METABOLITE)));
+    expected.sort();
+    assert_eq!(tree.keys().cloned().collect::<Vec<_>>(), expected);
+    // report.json is the report itself.
+    let json: Report = serde_json::from_slice(&tree["report.json"]).unwrap();
+    assert_eq!(json, fixture());
+    // Nothing but the site was left next to it (no temporary folder).
+    let siblings: Vec<_> = fs::read_dir(tmp.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
+    assert_eq!(siblings, vec![std::ffi::OsString::from("site")]);
+}
+
+#[test]
+fn every_local_link_points_to_an_existing_file_and_anchor() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let tree = read_tree(&out);
+    let pages = html_pages(&tree);
+    let ids: BTreeMap<&str, Vec<String>> = pages
+        .iter()
+        .map(|(name, html)| (*name, attribute_values(html, "id")))
+        .collect();
+    let mut checked = 0;
+    for (name, html) in &pages {
+        // Links are written plainly, never with entity-escaped slashes.
+        assert!(!html.contains("href=\"..&#x2f;"), "{name}: escaped link");
+        assert!(!html.contains("&#x2f;index.html"), "{name}: escaped link");
+        let dir: PathBuf = Path::new(name).parent().unwrap().to_path_buf();
+        let mut targets: Vec<(&str, String)> = attribute_values(html, "href")
+            .into_iter()
+            .map(|v| ("href", v))
+            .collect();
+        targets.extend(
+            attribute_values(html, "src")
+                .into_iter()
+                .map(|v| ("src", v)),
+        );
+        for (attr, target) in targets {
+            if target.starts_with("https://") || target.starts_with("http://") {
+                // Only a user's own Markdown link may leave the site, and
+                // only as a link the reader clicks, never as a loaded resource.
+                assert_eq!(attr, "href", "{name}: remote {attr} {target}");
+                assert!(name.starts_with("notes/"), "{name}: remote link {target}");
+                continue;
+            }
+            assert!(
+                !target.contains(':'),
+                "{name}: link with a scheme: {target}"
+            );
+            assert!(!target.starts_with('/'), "{name}: absolute link {target}");
+            let (path, fragment) = target.split_once('#').unwrap_or((&target, ""));
+            let resolved = if path.is_empty() {
+                name.to_string()
+            } else {
+                let mut parts: Vec<String> = dir
+                    .components()
+                    .map(|c| c.as_os_str().to_str().unwrap().to_owned())
+                    .collect();
+                for c in Path::new(path).components() {
+                    match c {
+                        Component::ParentDir => {
+                            assert!(parts.pop().is_some(), "{name}: {target} leaves the site");
+                        }
+                        Component::Normal(p) => parts.push(p.to_str().unwrap().to_owned()),
+                        other => panic!("{name}: unexpected path part {other:?} in {target}"),
+                    }
+                }
+                parts.join("/")
+            };
+            assert!(
+                tree.contains_key(&resolved),
+                "{name}: broken link {target} → {resolved}"
+            );
+            if !fragment.is_empty() {
+                let page_ids = &ids[resolved.as_str()];
+                assert!(
+                    page_ids.iter().any(|id| id == fragment),
+                    "{name}: missing anchor {target}"
+                );
+            }
+            checked += 1;
+        }
+    }
+    // The check must actually have looked at links: every page has the
+    // stylesheet, script, navigation and footer links at least.
+    assert!(checked >= 10 * pages.len(), "only {checked} links checked");
+    let atph = &pages
+        .iter()
+        .find(|(n, _)| *n == "reactions/ATPH.html")
+        .unwrap()
+        .1;
+    assert!(atph.contains(r#"href="../assets/style.css""#));
+    assert!(atph.contains(r#"href="../metabolites/atp_c.html""#));
+}
+
+#[test]
+fn model_strings_are_escaped_everywhere() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let tree = read_tree(&out);
+    for (name, html) in html_pages(&tree) {
+        assert!(!html.contains("<b>"), "{name} contains a raw <b> tag");
+        assert!(!html.contains("</b>"), "{name} contains a raw </b> tag");
+        assert!(
+            !html.contains("<script>alert"),
+            "{name} contains the note's script"
+        );
+        // Our own script tag is the only one.
+        assert_eq!(html.matches("<script").count(), 1, "{name}");
+        assert!(html.contains(CAUTION), "{name} lacks the caution");
+    }
+    for name in tree.keys() {
+        assert!(
+            name.split('/')
+                .all(|part| part != ".." && !part.contains('<') && !part.contains('"')),
+            "unsafe file name {name}"
+        );
+    }
+    let hostile_page =
+        String::from_utf8(tree[&format!("reactions/{}.html", slug(HOSTILE_REACTION))].clone())
+            .unwrap();
+    // minijinja's HTML escaping of the id …
+    assert!(
+        hostile_page.contains("R_&lt;b&gt;&amp;&quot;&#x27;..&#x2f;x"),
+        "{hostile_page}"
+    );
+    // … and the svg crate's escaping of the same id in the bar's <title>.
+    assert!(
+        hostile_page.contains("<title>ΔG′ range of R_&lt;b&gt;&amp;\"'../x:"),
+        "{hostile_page}"
+    );
+    let note = String::from_utf8(tree["notes/review.html"].clone()).unwrap();
+    assert!(
+        note.contains("&lt;script&gt;alert(1)&lt;/script&gt;"),
+        "{note}"
+    );
+    assert!(
+        note.contains("<em>emphasis</em>"),
+        "Markdown is still rendered: {note}"
+    );
+    assert!(
+        !note.contains("<img"),
+        "a remote image must not load: {note}"
+    );
+}
+
+#[test]
+fn overview_lists_errors_and_warnings_with_counts_and_coverage() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let index = fs::read_to_string(out.join("index.html")).unwrap();
+    assert!(index.contains("ATPH runs backward in scenario growth"));
+    assert!(index.contains("Reaction &lt;b&gt;x&lt;&#x2f;b&gt; is not mass balanced."));
+    assert!(
+        !index.contains("NOTE-ONLY-MESSAGE"),
+        "notes belong on the findings page"
+    );
+    let findings = fs::read_to_string(out.join("findings.html")).unwrap();
+    assert!(findings.contains("NOTE-ONLY-MESSAGE"));
+    // Severity shown by icon and word, not by colour alone.
+    assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">✖</span> error</span>"));
+    assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">▲</span> warning</span>"));
+    assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">●</span> note</span>"));
+    // Coverage 2 of 3 reactions and 3 of 4 metabolites.
+    assert!(
+        index.contains("66.7 %") && index.contains("75.0 %"),
+        "{index}"
+    );
+    // Scenario table row.
+    assert!(index.contains("id=\"scenario-growth\""));
+    // The finding's subject without a page (a loop id) is plain text.
+    assert!(findings.contains("<code>loop-1</code>"));
+}
+
+/// Attribute `name` of the first `<tag …>` carrying `class="class"`.
+fn svg_attr(html: &str, tag: &str, class: &str, name: &str) -> f64 {
+    let open = format!("<{tag} ");
+    let element = html
+        .match_indices(&open)
+        .map(|(i, _)| &html[i..i + html[i..].find('>').unwrap()])
+        .find(|e| e.contains(&format!("class=\"{class}\"")))
+        .unwrap_or_else(|| panic!("no <{tag} class={class}>"));
+    let values = attribute_values(element, name);
+    values[0].parse().unwrap()
+}
+
+#[test]
+fn range_bar_places_zero_and_the_range() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let page =
+        fs::read_to_string(out.join(format!("reactions/{}.html", slug(HOSTILE_REACTION)))).unwrap();
+    // Range −10 … 30 kJ/mol, σ = 2 with multiplier 1.96: allowance 3.92.
+    let x = svg_attr(&page, "rect", "range", "x");
+    let width = svg_attr(&page, "rect", "range", "width");
+    let zero = svg_attr(&page, "line", "zero", "x1");
+    assert_eq!(
+        svg_attr(&page, "line", "zero", "x2"),
+        zero,
+        "zero line is vertical"
+    );
+    // Zero lies a quarter of the way along the bar (10 of 40 kJ/mol).
+    assert!(
+        ((zero - x) / width - 0.25).abs() < 1e-3,
+        "x={x} w={width} zero={zero}"
+    );
+    // The drawing spans [−13.92, 33.92] plus 6 % margins on the plot width
+    // 48 … 592: x(v) = 48 + (v + 16.7904) / 53.5808 · 544.
+    let expect = |v: f64| 48.0 + (v + 16.7904) / 53.5808 * 544.0;
+    assert!((x - expect(-10.0)).abs() < 0.01, "x = {x}");
+    assert!((zero - expect(0.0)).abs() < 0.01, "zero = {zero}");
+    assert!(
+        (x + width - expect(30.0)).abs() < 0.02,
+        "end = {}",
+        x + width
+    );
+    let ax = svg_attr(&page, "rect", "allowance", "x");
+    let aw = svg_attr(&page, "rect", "allowance", "width");
+    assert!((ax - expect(-13.92)).abs() < 0.01 && (ax + aw - expect(33.92)).abs() < 0.02);
+    // Values are labelled with a real minus sign.
+    // (the svg crate puts text content on its own line)
+    let page = page.replace(">\n", ">").replace("\n</text>", "</text>");
+    assert!(
+        page.contains(">−10.00</text>") && page.contains(">30.00</text>"),
+        "{page}"
+    );
+    let zero_label =
+        format!("class=\"zero-label\" text-anchor=\"middle\" x=\"{zero}\" y=\"11\">0</text>");
+    assert!(page.contains(&zero_label), "{page}");
+
+    // A range entirely below zero still shows zero, at the right end.
+    let atph = fs::read_to_string(out.join("reactions/ATPH.html")).unwrap();
+    let x = svg_attr(&atph, "rect", "range", "x");
+    let width = svg_attr(&atph, "rect", "range", "width");
+    let zero = svg_attr(&atph, "line", "zero", "x1");
+    assert!(
+        x + width < zero && zero <= 592.0,
+        "x={x} w={width} zero={zero}"
+    );
+    // No range, no bar.
+    let unk = fs::read_to_string(out.join("reactions/UNK.html")).unwrap();
+    assert!(!unk.contains("<svg"));
+}
+
+#[test]
+fn user_theme_replaces_files_one_by_one() {
+    let tmp = tempfile::tempdir().unwrap();
+    let theme = tmp.path().join("theme");
+    fs::create_dir(&theme).unwrap();
+    fs::write(theme.join("style.css"), "/* my own style */\n").unwrap();
+    fs::write(
+        theme.join("note.html"),
+        "{% extends \"layout.html\" %}{% block content %}<p>CUSTOM NOTE {{ item.title }}</p>{% endblock %}",
+    )
+    .unwrap();
+    fs::write(theme.join("logo.txt"), "extra asset").unwrap();
+    let out = tmp.path().join("site");
+    render(&fixture(), Some(&theme), &out).unwrap();
+    assert_eq!(
+        fs::read_to_string(out.join("assets/style.css")).unwrap(),
+        "/* my own style */\n"
+    );
+    assert_eq!(
+        fs::read_to_string(out.join("assets/logo.txt")).unwrap(),
+        "extra asset"
+    );
+    let default_js = DEFAULT_THEME
+        .iter()
+        .find(|(n, _)| *n == "table.js")
+        .unwrap()
+        .1;
+    assert_eq!(fs::read(out.join("assets/table.js")).unwrap(), default_js);
+    let note = fs::read_to_string(out.join("notes/review.html")).unwrap();
+    assert!(
+        note.contains("<p>CUSTOM NOTE Review &lt;notes&gt;</p>"),
+        "{note}"
+    );
+    // The default layout still wraps the overridden page, and other pages
+    // keep their default templates.
+    assert!(note.contains("<nav aria-label=\"Sections\">"));
+    let index = fs::read_to_string(out.join("index.html")).unwrap();
+    assert!(index.contains("Findings at a glance"));
+}
+
+#[test]
+fn failed_render_keeps_the_previous_site_and_leaves_no_temporary_folder() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let before = read_tree(&out);
+
+    // A template that fails while rendering (after pages were written).
+    let theme = tmp.path().join("theme");
+    fs::create_dir(&theme).unwrap();
+    fs::write(
+        theme.join("reaction.html"),
+        "{% extends \"layout.html\" %}{% block content %}{{ item.no_such_field }}{% endblock %}",
+    )
+    .unwrap();
+    let err = render(&fixture(), Some(&theme), &out).unwrap_err();
+    match &err {
+        Error::Render { template, message } => {
+            // Named by its path, so the user knows it is their file.
+            assert_eq!(template, &theme.join("reaction.html").display().to_string());
+            assert!(message.contains("undefined"), "{message}");
+            assert!(
+                message.contains("while writing page reactions/"),
+                "{message}"
+            );
+        }
+        other => panic!("expected a render error, got {other}"),
+    }
+    assert_eq!(read_tree(&out), before, "the previous site changed");
+
+    // A template with a syntax error fails before anything is written.
+    fs::write(theme.join("reaction.html"), "{% if %}").unwrap();
+    assert!(matches!(
+        render(&fixture(), Some(&theme), &out),
+        Err(Error::Render { .. })
+    ));
+    assert_eq!(read_tree(&out), before);
+
+    let names: Vec<_> = fs::read_dir(tmp.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name().into_string().unwrap())
+        .collect();
+    let mut names = names;
+    names.sort();
+    assert_eq!(
+        names,
+        ["site", "theme"],
+        "a temporary folder was left behind"
+    );
+
+    // A successful render replaces the old site completely.
+    fs::write(out.join("stale.html"), "old").unwrap();
+    render_fixture(&out);
+    assert!(!out.join("stale.html").exists());
+    assert_eq!(read_tree(&out), before);
+}
+
+#[test]
+fn a_foreign_folder_is_never_replaced() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("project");
+    fs::create_dir(&out).unwrap();
+    fs::write(out.join("model.yaml"), "precious").unwrap();
+    let err = render(&fixture(), None, &out).unwrap_err();
+    assert!(err.to_string().contains("not made by gibbsite"), "{err}");
+    assert_eq!(
+        fs::read_to_string(out.join("model.yaml")).unwrap(),
+        "precious"
+    );
+    assert_eq!(fs::read_dir(tmp.path()).unwrap().count(), 1);
+    // An empty folder is fine.
+    let empty = tmp.path().join("empty");
+    fs::create_dir(&empty).unwrap();
+    render(&fixture(), None, &empty).unwrap();
+    assert!(empty.join("index.html").is_file());
+}
+
+#[test]
+fn unsafe_or_duplicate_slugs_are_refused() {
+    let tmp = tempfile::tempdir().unwrap();
+    let mut report = fixture();
+    report.reactions[0].slug = "../escape".into();
+    assert!(matches!(
+        render(&report, None, &tmp.path().join("a")),
+        Err(Error::Render { .. })
+    ));
+    let mut report = fixture();
+    report.metabolites[1].slug = report.metabolites[0].slug.clone();
+    assert!(matches!(
+        render(&report, None, &tmp.path().join("b")),
+        Err(Error::Render { .. })
+    ));
+    assert_eq!(fs::read_dir(tmp.path()).unwrap().count(), 0);
+}
+
+#[test]
+fn output_is_byte_identical_across_renders_and_input_orders() {
+    let tmp = tempfile::tempdir().unwrap();
+    let (a, b) = (tmp.path().join("a"), tmp.path().join("b"));
+    render_fixture(&a);
+    // Same report with its lists in another order: same pages.
+    let mut shuffled = fixture();
+    shuffled.reactions.reverse();
+    shuffled.metabolites.reverse();
+    shuffled.findings.reverse();
+    render(&shuffled, None, &b).unwrap();
+    let (ta, mut tb) = (read_tree(&a), read_tree(&b));
+    // report.json mirrors the report as given, so only it may differ.
+    tb.insert("report.json".into(), ta["report.json"].clone());
+    assert_eq!(ta, tb);
+    render_fixture(&b);
+    assert_eq!(ta, read_tree(&b));
+}
+
+/// The meaningful part (`<main>`) of one reaction page against a stored
+/// snapshot; set `UPDATE_SNAPSHOTS=1` to rewrite it after a deliberate change.
+#[test]
+fn reaction_page_snapshot() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let page = fs::read_to_string(out.join("reactions/ATPH.html")).unwrap();
+    let start = page.find("<main").unwrap();
+    let end = page.find("</main>").unwrap() + "</main>".len();
+    let main = page[start..end]
+        .replace(env!("CARGO_PKG_VERSION"), "[version]")
+        .replace("2024-01-01T00:00:00Z", "[generated]");
+    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/site_expected/reaction_ATPH.html");
+    if std::env::var_os("UPDATE_SNAPSHOTS").is_some() {
+        fs::create_dir_all(path.parent().unwrap()).unwrap();
+        fs::write(&path, format!("{main}\n")).unwrap();
+    }
+    let expected =
+        fs::read_to_string(&path).expect("snapshot missing: run with UPDATE_SNAPSHOTS=1");
+    assert_eq!(format!("{main}\n"), expected);
+}
+
+#[test]
+fn an_empty_report_renders_without_notes_pages() {
+    let tmp = tempfile::tempdir().unwrap();
+    let mut report = fixture();
+    report.findings.clear();
+    report.reactions.clear();
+    report.metabolites.clear();
+    report.scenarios.clear();
+    report.compartments.clear();
+    report.notes.clear();
+    report.summary.reactions = 0;
+    report.summary.metabolites = 0;
+    let out = tmp.path().join("site");
+    render(&report, None, &out).unwrap();
+    let tree = read_tree(&out);
+    assert!(!tree.keys().any(|k| k.starts_with("notes/")));
+    let index = String::from_utf8(tree["index.html"].clone()).unwrap();
+    assert!(index.contains("No errors or warnings."));
+    assert!(index.contains("The project defines no flux scenarios."));
+    assert!(!index.contains("notes/index.html"), "no dead Notes link");
+}
