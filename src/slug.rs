@@ -15,12 +15,31 @@ pub fn slug(id: &str) -> String {
             }
         })
         .collect();
-    let changed = out != id || out.is_empty() || out.len() > 100;
+    // `index` would replace a folder's list page.
+    let changed =
+        out != id || out.is_empty() || out.len() > 100 || out.eq_ignore_ascii_case("index");
     out.truncate(100);
     if changed {
         out.push_str(&format!("-{:08x}", fnv1a(id.as_bytes())));
     }
     out
+}
+
+/// Slugs for a list of ids that stay distinct even on case-insensitive file
+/// systems: an id whose slug differs from an earlier one only in case gets
+/// its hash appended.
+pub fn unique_slugs<'a>(ids: impl IntoIterator<Item = &'a str>) -> Vec<String> {
+    let mut seen = std::collections::HashSet::new();
+    ids.into_iter()
+        .map(|id| {
+            let mut s = slug(id);
+            if !seen.insert(s.to_ascii_lowercase()) {
+                s = format!("{s}-{:08x}", fnv1a(id.as_bytes()));
+                seen.insert(s.to_ascii_lowercase());
+            }
+            s
+        })
+        .collect()
 }
 
 /// FNV-1a, 32 bit: a tiny stable hash (same on every machine and release).
@@ -54,5 +73,15 @@ mod tests {
         assert_ne!(slug("a/b"), slug("a.b"));
         assert!(!slug("").is_empty());
         assert!(slug(&"x".repeat(500)).len() <= 109);
+        assert_ne!(slug("index"), "index");
+        assert_ne!(slug("Index").to_lowercase(), "index");
+    }
+
+    #[test]
+    fn case_only_differences_get_distinct_slugs() {
+        let s = unique_slugs(["M_h2o", "M_H2O", "M_atp"]);
+        assert_eq!(s[0], "M_h2o");
+        assert_ne!(s[1].to_lowercase(), s[0].to_lowercase());
+        assert_eq!(s[2], "M_atp");
     }
 }

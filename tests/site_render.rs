@@ -58,6 +58,9 @@ fn metabolite(id: &str, name: &str, consumed: &[&str], produced: &[&str]) -> Met
         xrefs: BTreeMap::new(),
         consumed_by: consumed.iter().map(|s| s.to_string()).collect(),
         produced_by: produced.iter().map(|s| s.to_string()).collect(),
+        library_key: None,
+        energy_problem: None,
+        species: None,
     }
 }
 
@@ -112,6 +115,9 @@ fn fixture() -> Report {
             verdict: Verdict::Contradiction,
         }],
         missing_data: vec![],
+        missing_reasons: vec![],
+        energy_terms: vec![],
+        transport: None,
     };
     let hostile = ReactionView {
         id: HOSTILE_REACTION.into(),
@@ -139,6 +145,9 @@ fn fixture() -> Report {
         backward_verdict: Some(Verdict::Consistent),
         scenario_verdicts: vec![],
         missing_data: vec![],
+        missing_reasons: vec![],
+        energy_terms: vec![],
+        transport: None,
     };
     let unknown = ReactionView {
         id: "UNK".into(),
@@ -163,6 +172,9 @@ fn fixture() -> Report {
         backward_verdict: None,
         scenario_verdicts: vec![],
         missing_data: vec![HOSTILE_METABOLITE.into()],
+        missing_reasons: vec![],
+        energy_terms: vec![],
+        transport: None,
     };
     let mut evil = metabolite(
         HOSTILE_METABOLITE,

@@ -5,7 +5,7 @@ use super::*;
 use crate::analysis::Analysis;
 use crate::model::{Model, Special};
 use crate::project::Project;
-use crate::slug::slug;
+use crate::slug::unique_slugs;
 
 /// The standing caution printed on every report.
 pub const CAUTION: &str = "ΔG values here are estimates and carry uncertainty (σ is shown beside each). \
@@ -138,6 +138,7 @@ fn generated_timestamp() -> String {
 }
 
 fn metabolite_views(model: &Model, analysis: &Analysis) -> Vec<MetaboliteView> {
+    let slugs = metabolite_slugs(model);
     model
         .metabolites
         .iter()
@@ -154,7 +155,7 @@ fn metabolite_views(model: &Model, analysis: &Analysis) -> Vec<MetaboliteView> {
             let range = analysis.concentration(i);
             MetaboliteView {
                 id: m.id.clone(),
-                slug: slug(&m.id),
+                slug: slugs[i].clone(),
                 name: m.name.clone(),
                 compartment: model.compartments[m.compartment].id.clone(),
                 formula: m.formula.clone(),
@@ -215,7 +216,13 @@ pub fn equation_text(model: &Model, j: usize) -> String {
         .to_string()
 }
 
+fn metabolite_slugs(model: &Model) -> Vec<String> {
+    unique_slugs(model.metabolites.iter().map(|m| m.id.as_str()))
+}
+
 fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
+    let slugs = unique_slugs(model.reactions.iter().map(|r| r.id.as_str()));
+    let metabolite_slugs = metabolite_slugs(model);
     model
         .reactions
         .iter()
@@ -227,7 +234,7 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                 |allowed: bool, d: f64| (judged && allowed).then(|| analysis.verdict(j, d));
             ReactionView {
                 id: r.id.clone(),
-                slug: slug(&r.id),
+                slug: slugs[j].clone(),
                 name: r.name.clone(),
                 equation: equation_text(model, j),
                 participants: r
@@ -235,7 +242,7 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                     .iter()
                     .map(|&(i, c)| ParticipantView {
                         metabolite: model.metabolites[i].id.clone(),
-                        slug: slug(&model.metabolites[i].id),
+                        slug: metabolite_slugs[i].clone(),
                         name: model.metabolites[i].name.clone(),
                         coefficient: c,
                     })
@@ -296,7 +303,7 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                             let m = &model.metabolites[i];
                             Some(EnergyTermView {
                                 metabolite: m.id.clone(),
-                                slug: slug(&m.id),
+                                slug: metabolite_slugs[i].clone(),
                                 compartment: model.compartments[m.compartment].id.clone(),
                                 coefficient: c,
                                 dfg_prime_kj: e.value_kj,
