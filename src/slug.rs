@@ -54,7 +54,7 @@ fn fnv1a(bytes: &[u8]) -> u32 {
 
 #[cfg(test)]
 mod tests {
-    use super::slug;
+    use super::{slug, unique_slugs};
 
     #[test]
     fn safe_ids_are_kept() {
