@@ -50,13 +50,13 @@ enum PathPart<'a> {
 use PathPart::{I, K};
 
 /// Collects diagnostics for one file with its source map.
-struct Reporter<'a> {
+struct Reporter<'a, 'm> {
     file: &'a Path,
-    map: &'a SourceMap,
+    map: &'m SourceMap,
     out: &'a mut Vec<Diagnostic>,
 }
 
-impl Reporter<'_> {
+impl Reporter<'_, '_> {
     fn at(&mut self, segments: &[Segment], message: impl Into<String>) -> &mut Diagnostic {
         let loc = self.map.nearest(segments).map(|l| l.pair());
         self.out
@@ -198,7 +198,7 @@ pub fn build(
 
     // Compartments first: metabolites refer to them.
     let mut compartment_ids: HashMap<String, usize> = HashMap::new();
-    let mut first_seen: HashMap<(u8, String), (PathBuf, usize)> = HashMap::new();
+    let mut first_seen: FirstSeen<'_> = HashMap::new();
     for src in sources {
         let mut r = Reporter {
             file: &src.file,
@@ -312,10 +312,13 @@ fn file_stem(file: &Path) -> String {
         .unwrap_or_else(|| "model".to_string())
 }
 
+/// Where each id was first defined: (namespace, id) → (file, map, path).
+type FirstSeen<'a> = HashMap<(u8, String), (PathBuf, &'a SourceMap, Vec<Segment>)>;
+
 /// Report a duplicate id (namespaced by `space`), pointing at both places.
-fn duplicate(
-    r: &mut Reporter<'_>,
-    seen: &mut HashMap<(u8, String), (PathBuf, usize)>,
+fn duplicate<'m>(
+    r: &mut Reporter<'_, 'm>,
+    seen: &mut FirstSeen<'m>,
     space: u8,
     id: &str,
     here: &[Segment],
@@ -323,26 +326,30 @@ fn duplicate(
 ) -> bool {
     let mut id_path = here.to_vec();
     id_path.push(Segment::Key("id".into()));
-    let line = r.map.value(&id_path).map(|l| l.line).unwrap_or(0);
     if id.trim().is_empty() {
         r.at(&id_path, format!("{what} id must not be empty"));
         return true;
     }
     match seen.get(&(space, id.to_string())) {
-        Some((file, first_line)) => {
+        Some((file, map, path)) => {
+            let first_line = map.value(path).map(|l| l.line).unwrap_or(0);
+            let hint = format!("first defined at {}:{first_line}", file.display());
             let d = r.at(&id_path, format!("duplicate {what} id `{id}`"));
-            d.hint = Some(format!("first defined at {}:{first_line}", file.display()));
+            d.hint = Some(hint);
             true
         }
         None => {
-            seen.insert((space, id.to_string()), (r.file.to_path_buf(), line));
+            seen.insert(
+                (space, id.to_string()),
+                (r.file.to_path_buf(), r.map, id_path),
+            );
             false
         }
     }
 }
 
 fn compartment(
-    r: &mut Reporter<'_>,
+    r: &mut Reporter<'_, '_>,
     raw: &super::schema::RawCompartment,
     here: &[Segment],
 ) -> Option<Compartment> {
@@ -415,7 +422,7 @@ fn compartment(
 }
 
 fn metabolite(
-    r: &mut Reporter<'_>,
+    r: &mut Reporter<'_, '_>,
     raw: &super::schema::RawMetabolite,
     here: &[Segment],
     compartments: &HashMap<String, usize>,
@@ -545,7 +552,7 @@ pub fn detect_special(formula: Option<&str>, charge: Option<i32>) -> Special {
 }
 
 fn species(
-    r: &mut Reporter<'_>,
+    r: &mut Reporter<'_, '_>,
     raw: &super::schema::RawSpeciesData,
     here: &[Segment],
 ) -> Option<Option<SpeciesData>> {
@@ -597,7 +604,7 @@ fn species(
 }
 
 fn reaction(
-    r: &mut Reporter<'_>,
+    r: &mut Reporter<'_, '_>,
     raw: &super::schema::RawReaction,
     here: &[Segment],
     metabolite_ids: &HashMap<String, usize>,
@@ -610,7 +617,8 @@ fn reaction(
     };
     let mut ok = true;
     let eq_path = sub("equation");
-    let eq_loc = r.map.value(&eq_path);
+    let map = r.map;
+    let eq_loc = || map.value(&eq_path);
     let mut stoichiometry: Vec<(usize, f64)> = Vec::new();
     let mut arrow = Arrow::Forward;
     match equation::parse(&raw.equation) {
@@ -630,7 +638,7 @@ fn reaction(
                                 term.id, raw.id
                             ),
                         )
-                        .at_opt(eq_loc.map(|l| l.inside(term.offset)));
+                        .at_opt(eq_loc().map(|l| l.inside(term.offset)));
                         if let Some(best) =
                             did_you_mean(&term.id, metabolites.iter().map(|m| m.id.as_str()))
                         {
@@ -651,7 +659,7 @@ fn reaction(
                         raw.id, e.message
                     ),
                 )
-                .at_opt(eq_loc.map(|l| l.inside(e.offset))),
+                .at_opt(eq_loc().map(|l| l.inside(e.offset))),
             );
             ok = false;
         }
@@ -769,7 +777,7 @@ fn reaction(
 }
 
 fn scenario(
-    r: &mut Reporter<'_>,
+    r: &mut Reporter<'_, '_>,
     raw: &RawScenario,
     here: &[Segment],
     reaction_ids: &HashMap<String, usize>,

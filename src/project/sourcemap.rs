@@ -60,30 +60,52 @@ impl Location {
     }
 }
 
+/// Locations of a YAML text's nodes. Built lazily, on the first question:
+/// a file without problems never pays for the second parse.
 #[derive(Debug, Default)]
 pub struct SourceMap {
+    text: String,
+    inner: std::cell::OnceCell<Locations>,
+}
+
+#[derive(Debug, Default)]
+struct Locations {
     values: HashMap<Path, Location>,
     keys: HashMap<Path, Location>,
 }
 
 impl SourceMap {
-    /// Build the map; on YAML syntax errors the map is simply partial
-    /// (serde_yaml reports the syntax error itself).
+    /// Keep the text; the event parse happens when a location is first asked
+    /// for. On YAML syntax errors the map is partial (serde_yaml reports the
+    /// syntax error itself).
     pub fn build(text: &str) -> SourceMap {
-        let mut builder = Builder::default();
-        let mut parser = Parser::new_from_str(text);
-        let _ = parser.load(&mut builder, false);
-        builder.map
+        SourceMap {
+            text: text.to_string(),
+            inner: std::cell::OnceCell::new(),
+        }
+    }
+
+    fn locations(&self) -> &Locations {
+        self.inner.get_or_init(|| {
+            let mut builder = Builder::default();
+            let mut parser = Parser::new_from_str(&self.text);
+            let _ = parser.load(&mut builder, false);
+            builder.map
+        })
     }
 
     /// Location of the value at `path`.
     pub fn value(&self, path: &[Segment]) -> Option<Location> {
-        self.values.get(path).copied()
+        self.locations().values.get(path).copied()
     }
 
     /// Location of the key naming `path` (falls back to the value).
     pub fn key(&self, path: &[Segment]) -> Option<Location> {
-        self.keys.get(path).copied().or_else(|| self.value(path))
+        self.locations()
+            .keys
+            .get(path)
+            .copied()
+            .or_else(|| self.value(path))
     }
 
     /// Closest known location: the path itself or its nearest ancestor.
@@ -95,7 +117,7 @@ impl SourceMap {
 /// Tracks the current path while events stream by.
 #[derive(Default)]
 struct Builder {
-    map: SourceMap,
+    map: Locations,
     stack: Vec<Frame>,
 }
 
