@@ -158,9 +158,13 @@ fn xml_error(error: &roxmltree::Error, text: &str, file: &Path) -> Diagnostic {
             let (line, column) = LineIndex::new(text.as_bytes()).locate(text.len());
             diagnostic.at(line, column)
         }
-        E::DtdDetected => diagnostic
-            .at(pos.row as usize, pos.col as usize)
-            .hint("SBML files have no DOCTYPE; remove it"),
+        E::DtdDetected => {
+            let offset = text.find("<!DOCTYPE").unwrap_or(0);
+            let (line, column) = LineIndex::new(text.as_bytes()).locate(offset);
+            diagnostic
+                .at(line, column)
+                .hint("SBML files have no DOCTYPE; remove it")
+        }
         _ => diagnostic.at(pos.row as usize, pos.col as usize),
     }
 }

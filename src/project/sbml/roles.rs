@@ -29,11 +29,12 @@ pub struct RoleClues<'a> {
 /// 2. Id prefix, after an optional `R_`: `EX_` exchange, `DM_` demand,
 ///    `SK_` or `sink_` sink (BiGG naming, common practice).
 /// 3. Id or name containing "biomass" (any case): biomass.
-/// 4. One-sided (every participant on the same side, or none left):
-///    exchange when all participants are extracellular (or there are
-///    none); otherwise demand when it only consumes and cannot run
-///    backwards; otherwise sink.
-/// 5. A reaction that named a boundary species: exchange.
+/// 4. A reaction that named a boundary species (it moves matter to or
+///    from the outside world): exchange.
+/// 5. One-sided (every participant on the same side, or none): exchange
+///    when all participants are extracellular (or there are none);
+///    otherwise demand when it only consumes and cannot run backwards;
+///    otherwise sink.
 /// 6. Otherwise internal.
 pub fn infer_role(clues: &RoleClues) -> Role {
     match clues.sbo {
@@ -56,21 +57,21 @@ pub fn infer_role(clues: &RoleClues) -> Role {
     if contains_biomass(clues.id) || contains_biomass(clues.name) {
         return Role::Biomass;
     }
-    let consumes = clues.participants.iter().any(|(c, _)| *c < 0.0);
-    let produces = clues.participants.iter().any(|(c, _)| *c > 0.0);
-    if !(consumes && produces) {
-        if clues.participants.iter().all(|(_, outside)| *outside) {
-            return Role::Exchange;
-        }
-        if consumes && clues.lower_bound >= 0.0 {
-            return Role::Demand;
-        }
-        return Role::Sink;
-    }
     if clues.had_boundary_species {
         return Role::Exchange;
     }
-    Role::Internal
+    let consumes = clues.participants.iter().any(|(c, _)| *c < 0.0);
+    let produces = clues.participants.iter().any(|(c, _)| *c > 0.0);
+    if consumes && produces {
+        return Role::Internal;
+    }
+    if clues.participants.iter().all(|(_, outside)| *outside) {
+        Role::Exchange
+    } else if consumes && clues.lower_bound >= 0.0 {
+        Role::Demand
+    } else {
+        Role::Sink
+    }
 }
 
 fn contains_biomass(text: &str) -> bool {
@@ -188,6 +189,18 @@ mod tests {
             ..clues("R_f", &TWO_SIDED)
         };
         assert_eq!(infer_role(&c), Role::Exchange);
+        // Even when what is left would look like a sink (uptake into the cytosol).
+        let c = RoleClues {
+            had_boundary_species: true,
+            ..clues("R_g", &[(1.0, false)])
+        };
+        assert_eq!(infer_role(&c), Role::Exchange);
+        // But an explicit demand prefix still wins.
+        let c = RoleClues {
+            had_boundary_species: true,
+            ..clues("R_DM_g", &[(-1.0, false)])
+        };
+        assert_eq!(infer_role(&c), Role::Demand);
         assert_eq!(infer_role(&clues("R_f", &TWO_SIDED)), Role::Internal);
     }
 
