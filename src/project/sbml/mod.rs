@@ -213,7 +213,7 @@ impl Reader {
     }
 
     /// Reads what it can; `None` when the document is not usable SBML at all.
-    fn read<'a>(&mut self, document: &'a roxmltree::Document, file: &Path) -> Option<Model> {
+    fn read(&mut self, document: &roxmltree::Document, file: &Path) -> Option<Model> {
         let root = document.root_element();
         let packages = self.packages(root)?;
         let core = packages.core;
