@@ -11,11 +11,11 @@
 //!   project sets them. The model temperature is [`DEFAULT_TEMPERATURE_K`].
 //! - Metabolites take formula and charge from `fbc:chemicalFormula` and
 //!   `fbc:charge`, cross references from `bqbiol:is` annotations
-//!   ([`annotation`]); H+ and water are recognised by formula or cross
+//!   ([`parse_xref_uri`]); H+ and water are recognised by formula or cross
 //!   reference ([`special_of`]).
 //! - Species with `boundaryCondition="true"` stand for the outside world:
 //!   they are not metabolites of the model and are dropped from every
-//!   reaction, which then counts as a boundary reaction ([`roles`]).
+//!   reaction, which then counts as a boundary reaction ([`infer_role`]).
 //! - Flux bounds: `fbc:lowerFluxBound` / `fbc:upperFluxBound` parameter
 //!   references (fbc 2; a number written in place of the reference is
 //!   accepted), `fbc:fluxBound` elements (fbc 1), or `LOWER_BOUND` /
@@ -361,9 +361,6 @@ impl Reader {
                 continue;
             };
             let package_version: u32 = package_version.parse().unwrap_or(0);
-            // The namespace string is borrowed from the document, so it lives
-            // as long as the tree.
-            let uri = root.lookup_namespace_uri(namespace.name()).unwrap_or(uri);
             match (name, package_version) {
                 ("fbc", 1..=3) => packages.fbc = Some((uri, package_version)),
                 ("groups", 1) => packages.groups = Some(uri),
