@@ -14,6 +14,7 @@
 //! taken from `bqbiol:isVersionOf`, since an EC number names a class of
 //! reactions and many models state it that way.
 
+use std::borrow::Cow;
 use std::collections::BTreeMap;
 
 const RDF_NS: &str = "http://www.w3.org/1999/02/22-rdf-syntax-ns#";
@@ -67,20 +68,20 @@ pub fn parse_uri(uri: &str) -> Option<(String, String)> {
     let (namespace, id) = if let Some(rest) = uri.strip_prefix("urn:miriam:") {
         // urn:miriam:<namespace>:<id>, the id percent-encoded.
         let (namespace, id) = rest.split_once(':')?;
-        (namespace.to_string(), percent_decode(id))
+        (namespace, percent_decode(id))
     } else {
         let rest = ["https://identifiers.org/", "http://identifiers.org/"]
             .iter()
             .find_map(|p| uri.strip_prefix(p))?;
         match rest.split_once('/') {
-            Some((namespace, id)) => (namespace.to_string(), percent_decode(id)),
+            Some((namespace, id)) => (namespace, percent_decode(id)),
             // Compact form: identifiers.org/PREFIX:ID.
             None => {
                 let (prefix, local) = rest.split_once(':')?;
                 if prefix_is_part_of_id(prefix) {
-                    (prefix.to_string(), percent_decode(rest))
+                    (prefix, percent_decode(rest))
                 } else {
-                    (prefix.to_string(), percent_decode(local))
+                    (prefix, percent_decode(local))
                 }
             }
         }
@@ -88,7 +89,7 @@ pub fn parse_uri(uri: &str) -> Option<(String, String)> {
     if namespace.is_empty() || id.is_empty() {
         return None;
     }
-    Some(normalise(&namespace, &id))
+    Some(normalise(namespace, &id))
 }
 
 /// Namespaces whose ids carry their own prefix (`CHEBI:15422`, `GO:0008152`).
@@ -125,9 +126,9 @@ pub fn normalise(namespace: &str, id: &str) -> (String, String) {
 
 /// Decodes `%XX` escapes (MIRIAM URNs write `:` as `%3A`); a malformed
 /// escape is kept as written.
-fn percent_decode(text: &str) -> String {
+fn percent_decode(text: &str) -> Cow<'_, str> {
     if !text.contains('%') {
-        return text.to_string();
+        return Cow::Borrowed(text);
     }
     let bytes = text.as_bytes();
     let mut out = Vec::with_capacity(bytes.len());
@@ -145,7 +146,7 @@ fn percent_decode(text: &str) -> String {
         out.push(bytes[i]);
         i += 1;
     }
-    String::from_utf8(out).unwrap_or_else(|_| text.to_string())
+    String::from_utf8(out).map_or(Cow::Borrowed(text), Cow::Owned)
 }
 
 #[cfg(test)]
