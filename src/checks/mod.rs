@@ -4,6 +4,7 @@
 use crate::analysis::Analysis;
 use crate::report::Finding;
 
+pub mod balance;
 pub mod bounds_audit;
 pub mod missing_energy;
 pub mod scenario_directions;
@@ -19,6 +20,7 @@ pub struct Check {
 
 /// Every check, in the order the overview lists them.
 pub const REGISTRY: &[Check] = &[
+    balance::CHECK,
     bounds_audit::CHECK,
     scenario_directions::CHECK,
     missing_energy::CHECK,

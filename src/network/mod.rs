@@ -171,6 +171,7 @@ mod tests {
             group: None,
             role: Role::Internal,
             sbo: None,
+            xrefs: Default::default(),
         }
     }
 

@@ -773,6 +773,11 @@ fn reaction(
         group: raw.group.clone(),
         role,
         sbo: raw.sbo.clone(),
+        xrefs: raw
+            .xrefs
+            .iter()
+            .map(|(k, v)| (k.clone(), v.0.clone()))
+            .collect(),
     })
 }
 

@@ -101,6 +101,8 @@ pub struct RawReaction {
     pub group: Option<String>,
     pub role: Option<String>,
     pub sbo: Option<String>,
+    #[serde(default)]
+    pub xrefs: BTreeMap<String, OneOrMany>,
 }
 
 #[derive(Debug, Clone, serde::Deserialize)]
