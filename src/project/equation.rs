@@ -36,10 +36,9 @@ pub struct EquationError {
     pub offset: usize,
 }
 
-/// Parse an equation. Coefficients are written as they should be read,
-/// left-hand terms become negative. A backward arrow is normalised to a
-/// forward one by swapping sides, so `Arrow::Backward` only reports how the
-/// user wrote it.
+/// Parse an equation. Left-hand terms get negative coefficients whatever the
+/// arrow; the arrow only says which flux directions are meant (`<-`: the
+/// flux is negative, as with SBML bounds such as [-1000, 0]).
 pub fn parse(text: &str) -> Result<Equation, EquationError> {
     let tokens = tokenize(text);
     let arrows: Vec<usize> = tokens
@@ -73,11 +72,6 @@ pub fn parse(text: &str) -> Result<Equation, EquationError> {
             message: "equation has no metabolites".to_string(),
             offset: 0,
         });
-    }
-    if arrow == Arrow::Backward {
-        for t in &mut terms {
-            t.coefficient = -t.coefficient;
-        }
     }
     Ok(Equation { terms, arrow })
 }
@@ -223,8 +217,8 @@ mod tests {
         assert_eq!(pairs(&e), vec![(-1.0, "a"), (0.5, "b")]);
         let e = parse("a <- b").unwrap();
         assert_eq!(e.arrow, Arrow::Backward);
-        // Normalised: b is consumed, a produced.
-        assert_eq!(pairs(&e), vec![(1.0, "a"), (-1.0, "b")]);
+        // As written: flux in the allowed (negative) direction turns b into a.
+        assert_eq!(pairs(&e), vec![(-1.0, "a"), (1.0, "b")]);
     }
 
     #[test]

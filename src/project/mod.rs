@@ -12,6 +12,7 @@ pub mod schema;
 pub mod sourcemap;
 pub mod tables;
 pub mod units;
+pub mod write;
 pub mod yaml;
 
 use crate::error::{Diagnostic, Error, Result};
@@ -233,6 +234,7 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         .map(|(i, s)| (settings_path.to_path_buf(), &map, s.clone(), i))
         .collect();
     let mut model = load_model_files(&model_files, &extra)?;
+    apply_side_tables(&mut model, &raw, &root, settings_path, &map)?;
     apply_role_overrides(&mut model, &raw, settings_path, &map)?;
     let notes = match &notes_dir {
         Some(dir) => read_notes(dir)?,
@@ -252,6 +254,45 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         model,
         notes,
     })
+}
+
+fn apply_side_tables(
+    model: &mut Model,
+    raw: &RawSettings,
+    root: &Path,
+    settings_path: &Path,
+    map: &sourcemap::SourceMap,
+) -> Result<()> {
+    let Some(tables) = &raw.tables else {
+        return Ok(());
+    };
+    let mut diagnostics = Vec::new();
+    for (i, name) in tables.0.iter().enumerate() {
+        let path = root.join(name);
+        if !path.is_file() {
+            let p = if tables.0.len() == 1 {
+                vec![Segment::Key("tables".into())]
+            } else {
+                vec![Segment::Key("tables".into()), Segment::Index(i)]
+            };
+            diagnostics.push(
+                Diagnostic::new(
+                    settings_path,
+                    format!("table `{}` not found", path.display()),
+                )
+                .at_opt(map.nearest(&p).map(|l| l.pair())),
+            );
+            continue;
+        }
+        if let Err(ds) = tables::apply_side_table(&path, model) {
+            diagnostics.extend(ds);
+        }
+    }
+    if diagnostics.is_empty() {
+        Ok(())
+    } else {
+        Err(Error::Input(diagnostics))
+    }
 }
 
 fn apply_role_overrides(

@@ -273,6 +273,27 @@ pub fn build(
     }
 
     for src in sources {
+        let mut r = Reporter {
+            file: &src.file,
+            map: &src.map,
+            out: diagnostics,
+        };
+        for (id, q) in &src.raw.objective {
+            let p = path(&[K("objective"), K(id)]);
+            let value = r.quantity(q, Kind::Plain, &p);
+            match (reaction_ids.get(id), value) {
+                (Some(&j), Some(v)) => model.objective.push((j, v)),
+                (None, _) => {
+                    r.at_key(&p, format!("objective names unknown reaction `{id}`"));
+                }
+                _ => {}
+            }
+        }
+    }
+    // Reactions in model order, whatever order the mapping was written in.
+    model.objective.sort_by_key(|&(j, _)| j);
+
+    for src in sources {
         for (i, raw) in src.raw.scenarios.iter().enumerate() {
             let mut r = Reporter {
                 file: &src.file,

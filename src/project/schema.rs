@@ -18,6 +18,9 @@ pub struct RawModelFile {
     pub id: Option<String>,
     pub title: Option<String>,
     pub temperature: Option<RawQuantity>,
+    /// Reaction id → objective coefficient (flux-balance objective).
+    #[serde(default)]
+    pub objective: BTreeMap<String, RawQuantity>,
     #[serde(default)]
     pub compartments: Vec<RawCompartment>,
     #[serde(default)]
@@ -134,6 +137,8 @@ pub struct RawSettings {
     /// Extra flux scenarios from CSV files.
     #[serde(default)]
     pub scenarios: Vec<RawScenario>,
+    /// Side tables (CSV/TSV) of ΔfG'°, species data, ΔrG'° or concentrations.
+    pub tables: Option<OneOrMany>,
     /// Reaction id → role, overriding the model (and SBML inference).
     #[serde(default)]
     pub roles: BTreeMap<String, String>,

@@ -90,3 +90,331 @@ fn io_text(e: &csv::Error) -> String {
         _ => e.to_string(),
     }
 }
+
+/// What a side-table row sets on the model.
+#[derive(Debug, Clone, PartialEq)]
+enum RowValue {
+    Metabolite {
+        index: usize,
+        dfg: Option<(f64, f64, String)>,
+        species: Option<(crate::model::Species, f64, String)>,
+        range: Option<(f64, f64)>,
+        measured: Option<f64>,
+    },
+    Reaction {
+        index: usize,
+        drg: (f64, f64, String),
+    },
+}
+
+/// Columns a side table may have (lower case).
+const METABOLITE_COLUMNS: &[&str] = &[
+    "metabolite",
+    "dfg",
+    "sigma",
+    "source",
+    "min",
+    "max",
+    "measured",
+    "dfg0",
+    "dfh0",
+    "charge",
+    "hydrogens",
+    "magnesium",
+];
+const REACTION_COLUMNS: &[&str] = &["reaction", "drg", "sigma", "source"];
+
+/// Apply a side table of ΔG data or concentrations (CSV, or TSV by
+/// extension) to the model. Keyed by `metabolite` or `reaction` in the
+/// first column; see the README for the columns. Table values replace the
+/// model's; every problem is reported with its line.
+pub fn apply_side_table(
+    path: &Path,
+    model: &mut crate::model::Model,
+) -> Result<(), Vec<Diagnostic>> {
+    let tab = path
+        .extension()
+        .is_some_and(|e| e.eq_ignore_ascii_case("tsv"));
+    let mut reader = match csv::ReaderBuilder::new()
+        .delimiter(if tab { b'\t' } else { b',' })
+        .comment(Some(b'#'))
+        .trim(csv::Trim::All)
+        .from_path(path)
+    {
+        Ok(r) => r,
+        Err(e) => {
+            return Err(vec![Diagnostic::new(
+                path,
+                format!("cannot read table: {}", io_text(&e)),
+            )])
+        }
+    };
+    let headers: Vec<String> = match reader.headers() {
+        Ok(h) => h.iter().map(|c| c.to_lowercase()).collect(),
+        Err(e) => return Err(vec![csv_error(path, &e)]),
+    };
+    let is_reaction_table = headers.first().map(String::as_str) == Some("reaction");
+    let allowed = if is_reaction_table {
+        REACTION_COLUMNS
+    } else {
+        METABOLITE_COLUMNS
+    };
+    let mut problems = Vec::new();
+    if !matches!(
+        headers.first().map(String::as_str),
+        Some("metabolite" | "reaction")
+    ) {
+        problems.push(
+            Diagnostic::new(path, "the first column must be `metabolite` or `reaction`").at(1, 1),
+        );
+        return Err(problems);
+    }
+    for (k, h) in headers.iter().enumerate() {
+        if !allowed.contains(&h.as_str()) {
+            let mut d = Diagnostic::new(path, format!("unknown column `{h}`")).at(1, k + 1);
+            d = match super::schema::did_you_mean(h, allowed.iter().copied()) {
+                Some(best) => d.hint(format!("did you mean `{best}`?")),
+                None => d.hint(format!("expected columns: {}", allowed.join(", "))),
+            };
+            problems.push(d);
+        }
+    }
+    if !problems.is_empty() {
+        return Err(problems);
+    }
+    let column = |name: &str| headers.iter().position(|h| h == name);
+    let ids: HashMap<&str, usize> = if is_reaction_table {
+        model
+            .reactions
+            .iter()
+            .enumerate()
+            .map(|(i, r)| (r.id.as_str(), i))
+            .collect()
+    } else {
+        model
+            .metabolites
+            .iter()
+            .enumerate()
+            .map(|(i, m)| (m.id.as_str(), i))
+            .collect()
+    };
+    let mut rows = Vec::new();
+    let mut seen: HashMap<usize, usize> = HashMap::new();
+    for record in reader.records() {
+        let record = match record {
+            Ok(r) => r,
+            Err(e) => {
+                problems.push(csv_error(path, &e));
+                continue;
+            }
+        };
+        let line = record.position().map(|p| p.line() as usize).unwrap_or(0);
+        let cell = |name: &str| {
+            column(name)
+                .and_then(|c| record.get(c))
+                .filter(|v| !v.is_empty())
+        };
+        let id = record.get(0).unwrap_or("");
+        let Some(&index) = ids.get(id) else {
+            let what = if is_reaction_table {
+                "reaction"
+            } else {
+                "metabolite"
+            };
+            let mut d = Diagnostic::new(path, format!("unknown {what} `{id}`")).at(line, 1);
+            if let Some(best) = super::schema::did_you_mean(id, ids.keys().copied()) {
+                d = d.hint(format!("did you mean `{best}`?"));
+            }
+            problems.push(d);
+            continue;
+        };
+        let mut row_problems = Vec::new();
+        let mut number = |name: &str, kind: Kind| -> Option<f64> {
+            let text = cell(name)?;
+            match units::parse(&RawQuantity::Text(text.to_string()), kind) {
+                Ok(v) => Some(v),
+                Err(e) => {
+                    let col = column(name).unwrap_or(0) + 1;
+                    row_problems
+                        .push(Diagnostic::new(path, format!("column `{name}`: {e}")).at(line, col));
+                    None
+                }
+            }
+        };
+        let sigma = number("sigma", Kind::Energy).unwrap_or(0.0);
+        let source = cell("source").unwrap_or("").to_string();
+        let value = if is_reaction_table {
+            match number("drg", Kind::Energy) {
+                Some(v) => Some(RowValue::Reaction {
+                    index,
+                    drg: (v, sigma, source),
+                }),
+                None => None,
+            }
+        } else {
+            let dfg = number("dfg", Kind::Energy).map(|v| (v, sigma, source.clone()));
+            let dfg0 = number("dfg0", Kind::Energy);
+            let dfh0 = number("dfh0", Kind::Energy);
+            let min = number("min", Kind::Concentration);
+            let max = number("max", Kind::Concentration);
+            let measured = number("measured", Kind::Concentration);
+            let int = |name: &str, problems: &mut Vec<Diagnostic>| -> Option<i64> {
+                let text = cell(name)?;
+                match text.parse::<i64>() {
+                    Ok(v) => Some(v),
+                    Err(_) => {
+                        let col = column(name).unwrap_or(0) + 1;
+                        problems.push(
+                            Diagnostic::new(
+                                path,
+                                format!("column `{name}`: expected a whole number, found `{text}`"),
+                            )
+                            .at(line, col),
+                        );
+                        None
+                    }
+                }
+            };
+            let charge = int("charge", &mut row_problems);
+            let hydrogens = int("hydrogens", &mut row_problems);
+            let magnesium = int("magnesium", &mut row_problems);
+            let species = match (dfg0, charge, hydrogens) {
+                (Some(g), Some(z), Some(h)) if h >= 0 && magnesium.unwrap_or(0) >= 0 => Some((
+                    crate::model::Species {
+                        dfg0_kj: g,
+                        dfh0_kj: dfh0,
+                        charge: z as i32,
+                        hydrogens: h as u32,
+                        magnesium: magnesium.unwrap_or(0) as u32,
+                    },
+                    sigma,
+                    source.clone(),
+                )),
+                (None, None, None) => None,
+                _ => {
+                    row_problems.push(
+                        Diagnostic::new(
+                            path,
+                            "species rows need `dfg0`, `charge` and non-negative `hydrogens`",
+                        )
+                        .at(line, 1),
+                    );
+                    None
+                }
+            };
+            let range = match (min, max) {
+                (Some(a), Some(b)) if a > 0.0 && b > 0.0 && a <= b => Some((a, b)),
+                (None, None) => None,
+                (Some(a), Some(b)) if a > b => {
+                    row_problems.push(
+                        Diagnostic::new(path, format!("min ({a} M) is greater than max ({b} M)"))
+                            .at(line, 1),
+                    );
+                    None
+                }
+                (Some(_), Some(_)) => {
+                    row_problems
+                        .push(Diagnostic::new(path, "concentrations must be positive").at(line, 1));
+                    None
+                }
+                _ => {
+                    row_problems
+                        .push(Diagnostic::new(path, "give both `min` and `max`").at(line, 1));
+                    None
+                }
+            };
+            if let Some(m) = measured {
+                if m <= 0.0 {
+                    row_problems
+                        .push(Diagnostic::new(path, "concentrations must be positive").at(line, 1));
+                }
+            }
+            Some(RowValue::Metabolite {
+                index,
+                dfg,
+                species,
+                range,
+                measured,
+            })
+        };
+        // Several rows per metabolite only for species data.
+        let species_row = matches!(
+            &value,
+            Some(RowValue::Metabolite {
+                species: Some(_),
+                dfg: None,
+                range: None,
+                measured: None,
+                ..
+            })
+        );
+        if let Some(first) = seen.insert(index, line) {
+            if !species_row {
+                row_problems.push(
+                    Diagnostic::new(path, format!("`{id}` appears twice"))
+                        .at(line, 1)
+                        .hint(format!("first row at line {first}")),
+                );
+            }
+        }
+        if row_problems.is_empty() {
+            rows.extend(value);
+        } else {
+            problems.extend(row_problems);
+        }
+    }
+    if !problems.is_empty() {
+        return Err(problems);
+    }
+    let mut fresh_species: std::collections::HashSet<usize> = Default::default();
+    for row in rows {
+        match row {
+            RowValue::Reaction {
+                index,
+                drg: (v, s, src),
+            } => {
+                model.reactions[index].drg_prime = Some(crate::model::Energy {
+                    value_kj: v,
+                    sigma_kj: s,
+                    source: src,
+                });
+            }
+            RowValue::Metabolite {
+                index,
+                dfg,
+                species,
+                range,
+                measured,
+            } => {
+                let m = &mut model.metabolites[index];
+                if let Some((v, s, src)) = dfg {
+                    m.dfg_prime = Some(crate::model::Energy {
+                        value_kj: v,
+                        sigma_kj: s,
+                        source: src,
+                    });
+                }
+                if let Some((sp, s, src)) = species {
+                    // The table's species replace the model's, row by row.
+                    if fresh_species.insert(index) {
+                        m.species = Some(crate::model::SpeciesData {
+                            species: Vec::new(),
+                            sigma_kj: s,
+                            source: src,
+                        });
+                    }
+                    if let Some(data) = &mut m.species {
+                        data.species.push(sp);
+                    }
+                }
+                if let Some((a, b)) = range {
+                    m.concentration = Some(crate::model::Range { min: a, max: b });
+                }
+                if measured.is_some() {
+                    m.measured_m = measured;
+                }
+            }
+        }
+    }
+    Ok(())
+}

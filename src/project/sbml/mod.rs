@@ -241,7 +241,7 @@ impl Reader {
 
         let mut reactions =
             self.reactions(model_node, &packages, &species_slots, &parameters, &mut ids);
-        let objective = match packages.fbc {
+        let mut objective = match packages.fbc {
             Some((fbc, version)) => {
                 if version == 1 {
                     self.flux_bounds_v1(model_node, fbc, &mut reactions);
@@ -250,6 +250,13 @@ impl Reader {
             }
             None => Vec::new(),
         };
+        objective.sort_by_key(|&(j, _)| j);
+        // In gibbsite "reversible" means the bounds allow both directions (as
+        // the YAML loader derives it); the SBML attribute only set defaults.
+        for r in &mut reactions {
+            let r = &mut r.reaction;
+            r.reversible = r.lower_bound < 0.0 && r.upper_bound > 0.0;
+        }
         if let Some(groups) = packages.groups {
             self.groups(model_node, groups, &mut reactions);
         }
@@ -619,6 +626,7 @@ impl Reader {
                     }
                 }
             }
+            // Sorted by metabolite index (a BTreeMap), as the YAML loader builds it.
             let stoichiometry: Vec<(usize, f64)> = coefficients
                 .into_iter()
                 .filter(|(_, c)| *c != 0.0)
