@@ -3,7 +3,8 @@
 //!
 //! The report is fixture data for the renderer (no analysis runs here).
 //! Only the ATP hydrolysis ΔrG'° is a published value; every other number is
-//! invented for the test.
+//! invented for the test. The last tests render the demo project through
+//! the library API and check that site too.
 
 use gibbsite::report::*;
 use gibbsite::site::{render, theme::DEFAULT_THEME, write::MARKER_FILE};
@@ -17,6 +18,14 @@ const HOSTILE_REACTION: &str = "R_<b>&\"'../x";
 const HOSTILE_METABOLITE: &str = "M_<b>&\"'../evil";
 const CAUTION: &str = "ΔG estimates carry uncertainty; a flagged contradiction is a prompt for \
 expert review against measurements and the literature, not a verdict on the biology.";
+/// A species label and a compartment name full of HTML and quotes: they
+/// may only reach the SVG charts as escaped text, never inside attributes.
+const HOSTILE_SPECIES: &str = "A- \"<b>base</b>\"";
+const HOSTILE_COMPARTMENT: &str = "peri\"<b>plasm</b>";
+/// pK of the invented weak acid HA ⇌ A⁻ + H⁺ and the pH of its compartment.
+const ACID_PK: f64 = 7.0;
+const PERIPLASM_PH: f64 = 7.5;
+
 /// ATP + H2O = ADP + Pi at 298.15 K, pH 7, I = 0.25 M: ΔrG'° = −36.0353 kJ/mol
 /// (Alberty 2003, Thermodynamics of Biochemical Reactions, printed p. 220).
 const ATP_HYDROLYSIS_DRG: f64 = -36.0353;
@@ -81,8 +90,91 @@ fn finding(
     }
 }
 
-/// 3 reactions, 4 metabolites, one finding per severity, one note with raw
-/// HTML, and ids full of HTML and path characters.
+/// Mole fraction of the base A⁻ of an acid with pK `pk` at `ph`:
+/// 1 / (1 + 10^(pK − pH)) (Henderson–Hasselbalch, common practice).
+fn base_fraction(pk: f64, ph: f64) -> f64 {
+    1.0 / (1.0 + 10f64.powf(pk - ph))
+}
+
+/// The invented weak acid in the periplasm: HA and A⁻ with pK 7, plus a
+/// magnesium complex left out (no pMg), so it is neither counted nor drawn.
+fn acid_species() -> SpeciesView {
+    let base = base_fraction(ACID_PK, PERIPLASM_PH);
+    SpeciesView {
+        entries: vec![
+            SpeciesEntryView {
+                label: "HA".into(),
+                charge: 0,
+                hydrogens: 4,
+                magnesium: 0,
+                dfg0_kj: -339.96,
+                dfh0_kj: Some(-480.5),
+                dfg_prime_kj: Some(-20.0),
+                fraction: 1.0 - base,
+            },
+            SpeciesEntryView {
+                label: HOSTILE_SPECIES.into(),
+                charge: -1,
+                hydrogens: 3,
+                magnesium: 0,
+                dfg0_kj: -300.0,
+                dfh0_kj: None,
+                dfg_prime_kj: Some(-22.85),
+                fraction: base,
+            },
+            SpeciesEntryView {
+                label: "MgA+".into(),
+                charge: 1,
+                hydrogens: 3,
+                magnesium: 1,
+                dfg0_kj: -760.0,
+                dfh0_kj: None,
+                dfg_prime_kj: None,
+                fraction: 0.0,
+            },
+        ],
+        ph: PERIPLASM_PH,
+        ionic_strength_m: 0.1,
+        temperature_k: 298.15,
+        pmg: None,
+        mean_hydrogens: 4.0 - base,
+        mean_charge: -base,
+        // pH 4, 4.5, …, 10 as the report builder would give them.
+        curve: (0..=12)
+            .map(|k| {
+                let ph = 4.0 + 0.5 * k as f64;
+                let base = base_fraction(ACID_PK, ph);
+                CurvePoint {
+                    ph,
+                    fractions: vec![1.0 - base, base, 0.0],
+                }
+            })
+            .collect(),
+        provenance: vec!["HA: invented <b>for the test</b>".into()],
+    }
+}
+
+fn energy_term(
+    id: &str,
+    compartment: &str,
+    coefficient: f64,
+    dfg: f64,
+    sigma: f64,
+    origin: &str,
+) -> EnergyTermView {
+    EnergyTermView {
+        metabolite: id.into(),
+        slug: slug(id),
+        compartment: compartment.into(),
+        coefficient,
+        dfg_prime_kj: dfg,
+        sigma_kj: sigma,
+        origin: origin.into(),
+    }
+}
+
+/// 4 reactions, 6 metabolites in 2 compartments, one finding per severity,
+/// one note with raw HTML, and ids full of HTML and path characters.
 fn fixture() -> Report {
     let atph = ReactionView {
         id: "ATPH".into(),
@@ -172,10 +264,64 @@ fn fixture() -> Report {
         backward_verdict: None,
         scenario_verdicts: vec![],
         missing_data: vec![HOSTILE_METABOLITE.into()],
-        missing_reasons: vec![],
+        missing_reasons: vec!["pi_c: species data lack ΔfH° away from 298.15 K".into()],
         energy_terms: vec![],
         transport: None,
     };
+    // Symport of the acid with a proton into the cytosol. Terms in the
+    // report's order (products first); the page lists the consumed first.
+    let hat = ReactionView {
+        id: "HAT".into(),
+        slug: slug("HAT"),
+        name: "acid–proton symport".into(),
+        equation: "ha_p + h_p -> ha_c + h_c".into(),
+        participants: vec![
+            participant("ha_c", "acid", 1.0),
+            participant("h_c", "H+", 1.0),
+            participant("ha_p", "acid", -1.0),
+            participant("h_p", "H+", -1.0),
+        ],
+        reversible: true,
+        lower_bound: -10.0,
+        upper_bound: 10.0,
+        role: "internal".into(),
+        group: Some("transport".into()),
+        drg_prime: energy(5.3245, 0.8485, "Σ ν·ΔfG'°"),
+        energy_origin: Some("formation".into()),
+        k_prime: Some(0.1166),
+        dg_range: Some(RangeView {
+            min: -4.0,
+            max: 14.0,
+        }),
+        dg_measured: None,
+        forward_verdict: Some(Verdict::Consistent),
+        backward_verdict: Some(Verdict::Consistent),
+        scenario_verdicts: vec![],
+        missing_data: vec![],
+        missing_reasons: vec![],
+        energy_terms: vec![
+            energy_term("ha_c", "c", 1.0, -25.0, 0.6, "species"),
+            energy_term("h_c", "c", 1.0, 0.0, 0.0, "fixed"),
+            energy_term("ha_p", "p", -1.0, -23.53, 0.6, "species"),
+            energy_term("h_p", "p", -1.0, 0.0, 0.0, "fixed"),
+        ],
+        transport: Some(TransportView {
+            formation_sum_kj: -1.47,
+            proton_term_kj: -2.854,
+            electrical_term_kj: 9.6485,
+            reference_independent: false,
+        }),
+    };
+    let mut acid_p = metabolite("ha_p", "weak acid", &["HAT"], &[]);
+    acid_p.compartment = "p".into();
+    acid_p.dfg_prime = energy(-23.53, 0.6, "invented species data");
+    acid_p.energy_origin = Some("species".into());
+    acid_p.library_key = Some("acid-library-key".into());
+    acid_p.species = Some(acid_species());
+    let mut acid_c = metabolite("ha_c", "weak acid", &[], &["HAT"]);
+    acid_c.dfg_prime = energy(-25.0, 0.6, "invented");
+    acid_c.energy_origin = Some("model".into());
+    acid_c.energy_problem = Some("ACID-PROBLEM: the library entry lacks ΔfH°".into());
     let mut evil = metabolite(
         HOSTILE_METABOLITE,
         "<b>evil</b>",
@@ -239,16 +385,16 @@ fn fixture() -> Report {
             caution: CAUTION.into(),
         },
         summary: Summary {
-            reactions: 3,
-            internal_reactions: 3,
-            metabolites: 4,
-            compartments: 1,
+            reactions: 4,
+            internal_reactions: 4,
+            metabolites: 6,
+            compartments: 2,
             scenarios: 1,
             errors: 1,
             warnings: 1,
             notes: 1,
-            reactions_with_energy: 2,
-            metabolites_with_energy: 3,
+            reactions_with_energy: 3,
+            metabolites_with_energy: 5,
             by_kind: BTreeMap::from([
                 ("default-concentration".to_string(), 1),
                 ("direction-contradiction".to_string(), 1),
@@ -261,22 +407,35 @@ fn fixture() -> Report {
             }],
         },
         findings,
-        compartments: vec![CompartmentView {
-            id: "c".into(),
-            name: "cytosol".into(),
-            ph: 7.0,
-            ionic_strength_m: 0.25,
-            potential_mv: 0.0,
-            temperature_k: 298.15,
-            pmg: None,
-        }],
+        compartments: vec![
+            CompartmentView {
+                id: "p".into(),
+                name: HOSTILE_COMPARTMENT.into(),
+                ph: PERIPLASM_PH,
+                ionic_strength_m: 0.1,
+                potential_mv: 0.0,
+                temperature_k: 298.15,
+                pmg: None,
+            },
+            CompartmentView {
+                id: "c".into(),
+                name: "cytosol".into(),
+                ph: 7.0,
+                ionic_strength_m: 0.25,
+                potential_mv: -100.0,
+                temperature_k: 298.15,
+                pmg: Some(3.0),
+            },
+        ],
         metabolites: vec![
             metabolite("pi_c", "phosphate", &[], &["ATPH", "UNK"]),
             atp,
             metabolite("adp_c", "ADP", &[HOSTILE_REACTION], &["ATPH"]),
             evil,
+            acid_p,
+            acid_c,
         ],
-        reactions: vec![unknown, atph, hostile],
+        reactions: vec![unknown, atph, hat, hostile],
         scenarios: vec![ScenarioView {
             id: "growth".into(),
             description: "Aerobic growth (invented)".into(),
@@ -369,7 +528,10 @@ fn all_expected_files_exist_and_nothing_else() {
         "reactions/index.html",
         "reactions/ATPH.html",
         "reactions/UNK.html",
+        "reactions/HAT.html",
         "metabolites/index.html",
+        "metabolites/ha_p.html",
+        "metabolites/ha_c.html",
         "metabolites/atp_c.html",
         "metabolites/adp_c.html",
         "metabolites/pi_c.html",
@@ -383,9 +545,15 @@ fn all_expected_files_exist_and_nothing_else() {
     expected.push(format!("metabolites/{}.html", slug(HOSTILE_METABOLITE)));
     expected.sort();
     assert_eq!(tree.keys().cloned().collect::<Vec<_>>(), expected);
-    // report.json is the report itself.
+    // report.json is the report itself. Compared as text: serde_json's
+    // default float parser may be one ulp off on a round trip.
+    let expected_json = serde_json::to_string_pretty(&fixture()).unwrap() + "\n";
+    assert_eq!(
+        String::from_utf8(tree["report.json"].clone()).unwrap(),
+        expected_json
+    );
     let json: Report = serde_json::from_slice(&tree["report.json"]).unwrap();
-    assert_eq!(json, fixture());
+    assert_eq!(json.reactions.len(), 4);
     // Nothing but the site was left next to it (no temporary folder).
     let siblings: Vec<_> = fs::read_dir(tmp.path())
         .unwrap()
@@ -548,9 +716,9 @@ fn overview_lists_errors_and_warnings_with_counts_and_coverage() {
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">✖</span> error</span>"));
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">▲</span> warning</span>"));
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">●</span> note</span>"));
-    // Coverage 2 of 3 reactions and 3 of 4 metabolites.
+    // Coverage 3 of 4 reactions and 5 of 6 metabolites.
     assert!(
-        index.contains("66.7 %") && index.contains("75.0 %"),
+        index.contains("75.0 %") && index.contains("83.3 %"),
         "{index}"
     );
     // Scenario table row.
