@@ -3,7 +3,8 @@
 //!
 //! The report is fixture data for the renderer (no analysis runs here).
 //! Only the ATP hydrolysis ΔrG'° is a published value; every other number is
-//! invented for the test.
+//! invented for the test. The last tests render the demo project through
+//! the library API and check that site too.
 
 use gibbsite::report::*;
 use gibbsite::site::{render, theme::DEFAULT_THEME, write::MARKER_FILE};
@@ -17,6 +18,14 @@ const HOSTILE_REACTION: &str = "R_<b>&\"'../x";
 const HOSTILE_METABOLITE: &str = "M_<b>&\"'../evil";
 const CAUTION: &str = "ΔG estimates carry uncertainty; a flagged contradiction is a prompt for \
 expert review against measurements and the literature, not a verdict on the biology.";
+/// A species label and a compartment name full of HTML and quotes: they
+/// may only reach the SVG charts as escaped text, never inside attributes.
+const HOSTILE_SPECIES: &str = "A- \"<b>base</b>\"";
+const HOSTILE_COMPARTMENT: &str = "peri\"<b>plasm</b>";
+/// pK of the invented weak acid HA ⇌ A⁻ + H⁺ and the pH of its compartment.
+const ACID_PK: f64 = 7.0;
+const PERIPLASM_PH: f64 = 7.5;
+
 /// ATP + H2O = ADP + Pi at 298.15 K, pH 7, I = 0.25 M: ΔrG'° = −36.0353 kJ/mol
 /// (Alberty 2003, Thermodynamics of Biochemical Reactions, printed p. 220).
 const ATP_HYDROLYSIS_DRG: f64 = -36.0353;
@@ -81,8 +90,91 @@ fn finding(
     }
 }
 
-/// 3 reactions, 4 metabolites, one finding per severity, one note with raw
-/// HTML, and ids full of HTML and path characters.
+/// Mole fraction of the base A⁻ of an acid with pK `pk` at `ph`:
+/// 1 / (1 + 10^(pK − pH)) (Henderson–Hasselbalch, common practice).
+fn base_fraction(pk: f64, ph: f64) -> f64 {
+    1.0 / (1.0 + 10f64.powf(pk - ph))
+}
+
+/// The invented weak acid in the periplasm: HA and A⁻ with pK 7, plus a
+/// magnesium complex left out (no pMg), so it is neither counted nor drawn.
+fn acid_species() -> SpeciesView {
+    let base = base_fraction(ACID_PK, PERIPLASM_PH);
+    SpeciesView {
+        entries: vec![
+            SpeciesEntryView {
+                label: "HA".into(),
+                charge: 0,
+                hydrogens: 4,
+                magnesium: 0,
+                dfg0_kj: -339.96,
+                dfh0_kj: Some(-480.5),
+                dfg_prime_kj: Some(-20.0),
+                fraction: 1.0 - base,
+            },
+            SpeciesEntryView {
+                label: HOSTILE_SPECIES.into(),
+                charge: -1,
+                hydrogens: 3,
+                magnesium: 0,
+                dfg0_kj: -300.0,
+                dfh0_kj: None,
+                dfg_prime_kj: Some(-22.85),
+                fraction: base,
+            },
+            SpeciesEntryView {
+                label: "MgA+".into(),
+                charge: 1,
+                hydrogens: 3,
+                magnesium: 1,
+                dfg0_kj: -760.0,
+                dfh0_kj: None,
+                dfg_prime_kj: None,
+                fraction: 0.0,
+            },
+        ],
+        ph: PERIPLASM_PH,
+        ionic_strength_m: 0.1,
+        temperature_k: 298.15,
+        pmg: None,
+        mean_hydrogens: 4.0 - base,
+        mean_charge: -base,
+        // pH 4, 4.5, …, 10 as the report builder would give them.
+        curve: (0..=12)
+            .map(|k| {
+                let ph = 4.0 + 0.5 * k as f64;
+                let base = base_fraction(ACID_PK, ph);
+                CurvePoint {
+                    ph,
+                    fractions: vec![1.0 - base, base, 0.0],
+                }
+            })
+            .collect(),
+        provenance: vec!["HA: invented <b>for the test</b>".into()],
+    }
+}
+
+fn energy_term(
+    id: &str,
+    compartment: &str,
+    coefficient: f64,
+    dfg: f64,
+    sigma: f64,
+    origin: &str,
+) -> EnergyTermView {
+    EnergyTermView {
+        metabolite: id.into(),
+        slug: slug(id),
+        compartment: compartment.into(),
+        coefficient,
+        dfg_prime_kj: dfg,
+        sigma_kj: sigma,
+        origin: origin.into(),
+    }
+}
+
+/// 4 reactions, 6 metabolites in 2 compartments, one finding per severity,
+/// one note with raw HTML, and ids full of HTML and path characters.
 fn fixture() -> Report {
     let atph = ReactionView {
         id: "ATPH".into(),
@@ -172,10 +264,64 @@ fn fixture() -> Report {
         backward_verdict: None,
         scenario_verdicts: vec![],
         missing_data: vec![HOSTILE_METABOLITE.into()],
-        missing_reasons: vec![],
+        missing_reasons: vec!["pi_c: species data lack ΔfH° away from 298.15 K".into()],
         energy_terms: vec![],
         transport: None,
     };
+    // Symport of the acid with a proton into the cytosol. Terms in the
+    // report's order (products first); the page lists the consumed first.
+    let hat = ReactionView {
+        id: "HAT".into(),
+        slug: slug("HAT"),
+        name: "acid–proton symport".into(),
+        equation: "ha_p + h_p -> ha_c + h_c".into(),
+        participants: vec![
+            participant("ha_c", "acid", 1.0),
+            participant("h_c", "H+", 1.0),
+            participant("ha_p", "acid", -1.0),
+            participant("h_p", "H+", -1.0),
+        ],
+        reversible: true,
+        lower_bound: -10.0,
+        upper_bound: 10.0,
+        role: "internal".into(),
+        group: Some("transport".into()),
+        drg_prime: energy(5.3245, 0.8485, "Σ ν·ΔfG'°"),
+        energy_origin: Some("formation".into()),
+        k_prime: Some(0.1166),
+        dg_range: Some(RangeView {
+            min: -4.0,
+            max: 14.0,
+        }),
+        dg_measured: None,
+        forward_verdict: Some(Verdict::Consistent),
+        backward_verdict: Some(Verdict::Consistent),
+        scenario_verdicts: vec![],
+        missing_data: vec![],
+        missing_reasons: vec![],
+        energy_terms: vec![
+            energy_term("ha_c", "c", 1.0, -25.0, 0.6, "model"),
+            energy_term("h_c", "c", 1.0, 0.0, 0.0, "fixed"),
+            energy_term("ha_p", "p", -1.0, -23.53, 0.6, "species"),
+            energy_term("h_p", "p", -1.0, 0.0, 0.0, "fixed"),
+        ],
+        transport: Some(TransportView {
+            formation_sum_kj: -1.47,
+            proton_term_kj: -2.854,
+            electrical_term_kj: 9.6485,
+            reference_independent: false,
+        }),
+    };
+    let mut acid_p = metabolite("ha_p", "weak acid", &["HAT"], &[]);
+    acid_p.compartment = "p".into();
+    acid_p.dfg_prime = energy(-23.53, 0.6, "invented species data");
+    acid_p.energy_origin = Some("species".into());
+    acid_p.library_key = Some("acid-library-key".into());
+    acid_p.species = Some(acid_species());
+    let mut acid_c = metabolite("ha_c", "weak acid", &[], &["HAT"]);
+    acid_c.dfg_prime = energy(-25.0, 0.6, "invented");
+    acid_c.energy_origin = Some("model".into());
+    acid_c.energy_problem = Some("ACID-PROBLEM: the library entry lacks ΔfH°".into());
     let mut evil = metabolite(
         HOSTILE_METABOLITE,
         "<b>evil</b>",
@@ -239,16 +385,16 @@ fn fixture() -> Report {
             caution: CAUTION.into(),
         },
         summary: Summary {
-            reactions: 3,
-            internal_reactions: 3,
-            metabolites: 4,
-            compartments: 1,
+            reactions: 4,
+            internal_reactions: 4,
+            metabolites: 6,
+            compartments: 2,
             scenarios: 1,
             errors: 1,
             warnings: 1,
             notes: 1,
-            reactions_with_energy: 2,
-            metabolites_with_energy: 3,
+            reactions_with_energy: 3,
+            metabolites_with_energy: 5,
             by_kind: BTreeMap::from([
                 ("default-concentration".to_string(), 1),
                 ("direction-contradiction".to_string(), 1),
@@ -261,22 +407,35 @@ fn fixture() -> Report {
             }],
         },
         findings,
-        compartments: vec![CompartmentView {
-            id: "c".into(),
-            name: "cytosol".into(),
-            ph: 7.0,
-            ionic_strength_m: 0.25,
-            potential_mv: 0.0,
-            temperature_k: 298.15,
-            pmg: None,
-        }],
+        compartments: vec![
+            CompartmentView {
+                id: "p".into(),
+                name: HOSTILE_COMPARTMENT.into(),
+                ph: PERIPLASM_PH,
+                ionic_strength_m: 0.1,
+                potential_mv: 0.0,
+                temperature_k: 298.15,
+                pmg: None,
+            },
+            CompartmentView {
+                id: "c".into(),
+                name: "cytosol".into(),
+                ph: 7.0,
+                ionic_strength_m: 0.25,
+                potential_mv: -100.0,
+                temperature_k: 298.15,
+                pmg: Some(3.0),
+            },
+        ],
         metabolites: vec![
             metabolite("pi_c", "phosphate", &[], &["ATPH", "UNK"]),
             atp,
             metabolite("adp_c", "ADP", &[HOSTILE_REACTION], &["ATPH"]),
             evil,
+            acid_p,
+            acid_c,
         ],
-        reactions: vec![unknown, atph, hostile],
+        reactions: vec![unknown, atph, hat, hostile],
         scenarios: vec![ScenarioView {
             id: "growth".into(),
             description: "Aerobic growth (invented)".into(),
@@ -369,7 +528,10 @@ fn all_expected_files_exist_and_nothing_else() {
         "reactions/index.html",
         "reactions/ATPH.html",
         "reactions/UNK.html",
+        "reactions/HAT.html",
         "metabolites/index.html",
+        "metabolites/ha_p.html",
+        "metabolites/ha_c.html",
         "metabolites/atp_c.html",
         "metabolites/adp_c.html",
         "metabolites/pi_c.html",
@@ -383,9 +545,15 @@ fn all_expected_files_exist_and_nothing_else() {
     expected.push(format!("metabolites/{}.html", slug(HOSTILE_METABOLITE)));
     expected.sort();
     assert_eq!(tree.keys().cloned().collect::<Vec<_>>(), expected);
-    // report.json is the report itself.
+    // report.json is the report itself. Compared as text: serde_json's
+    // default float parser may be one ulp off on a round trip.
+    let expected_json = serde_json::to_string_pretty(&fixture()).unwrap() + "\n";
+    assert_eq!(
+        String::from_utf8(tree["report.json"].clone()).unwrap(),
+        expected_json
+    );
     let json: Report = serde_json::from_slice(&tree["report.json"]).unwrap();
-    assert_eq!(json, fixture());
+    assert_eq!(json.reactions.len(), 4);
     // Nothing but the site was left next to it (no temporary folder).
     let siblings: Vec<_> = fs::read_dir(tmp.path())
         .unwrap()
@@ -400,7 +568,21 @@ fn every_local_link_points_to_an_existing_file_and_anchor() {
     let out = tmp.path().join("site");
     render_fixture(&out);
     let tree = read_tree(&out);
+    check_links(&tree);
     let pages = html_pages(&tree);
+    let atph = &pages
+        .iter()
+        .find(|(n, _)| *n == "reactions/ATPH.html")
+        .unwrap()
+        .1;
+    assert!(atph.contains(r#"href="../assets/style.css""#));
+    assert!(atph.contains(r#"href="../metabolites/atp_c.html""#));
+}
+
+/// Every href/src of every page resolves to a file of the site (and to an
+/// element id when it has a fragment); remote links only in notes.
+fn check_links(tree: &BTreeMap<String, Vec<u8>>) {
+    let pages = html_pages(tree);
     let ids: BTreeMap<&str, Vec<String>> = pages
         .iter()
         .map(|(name, html)| (*name, attribute_values(html, "id")))
@@ -469,13 +651,6 @@ fn every_local_link_points_to_an_existing_file_and_anchor() {
     // The check must actually have looked at links: every page has the
     // stylesheet, script, navigation and footer links at least.
     assert!(checked >= 10 * pages.len(), "only {checked} links checked");
-    let atph = &pages
-        .iter()
-        .find(|(n, _)| *n == "reactions/ATPH.html")
-        .unwrap()
-        .1;
-    assert!(atph.contains(r#"href="../assets/style.css""#));
-    assert!(atph.contains(r#"href="../metabolites/atp_c.html""#));
 }
 
 #[test]
@@ -548,9 +723,9 @@ fn overview_lists_errors_and_warnings_with_counts_and_coverage() {
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">✖</span> error</span>"));
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">▲</span> warning</span>"));
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">●</span> note</span>"));
-    // Coverage 2 of 3 reactions and 3 of 4 metabolites.
+    // Coverage 3 of 4 reactions and 5 of 6 metabolites.
     assert!(
-        index.contains("66.7 %") && index.contains("75.0 %"),
+        index.contains("75.0 %") && index.contains("83.3 %"),
         "{index}"
     );
     // Scenario table row.
@@ -827,4 +1002,473 @@ fn an_empty_report_renders_without_notes_pages() {
     assert!(index.contains("No errors or warnings."));
     assert!(index.contains("The project defines no flux scenarios."));
     assert!(!index.contains("notes/index.html"), "no dead Notes link");
+}
+
+// ---------------------------------------------------------------------------
+// Thermodynamic detail: species, terms of ΔrG'°, verdict basis.
+
+/// Text of an HTML fragment as a reader sees it: inline tags removed,
+/// other tags a space, whitespace collapsed (entities left as written).
+fn text_of(html: &str) -> String {
+    const INLINE: [&str; 6] = ["span", "a", "code", "strong", "em", "sub"];
+    let mut out = String::new();
+    let mut rest = html;
+    while let Some(start) = rest.find('<') {
+        out.push_str(&rest[..start]);
+        let end = start + rest[start..].find('>').unwrap();
+        let name: String = rest[start + 1..end]
+            .trim_start_matches('/')
+            .chars()
+            .take_while(|c| c.is_ascii_alphanumeric())
+            .collect();
+        if !INLINE.contains(&name.as_str()) {
+            out.push(' ');
+        }
+        rest = &rest[end + 1..];
+    }
+    out.push_str(rest);
+    out.split_whitespace().collect::<Vec<_>>().join(" ")
+}
+
+/// The rows of the first `<table class="…">` whose class list is `class`,
+/// each as the texts of its cells.
+fn table_rows(html: &str, class: &str) -> Vec<Vec<String>> {
+    let start = html
+        .find(&format!("<table class=\"{class}\">"))
+        .unwrap_or_else(|| panic!("no table {class}"));
+    let table = &html[start..start + html[start..].find("</table>").unwrap()];
+    table
+        .split("<tr")
+        .skip(1)
+        .map(|row| {
+            row.split("<t")
+                .skip(1)
+                .filter(|cell| cell.starts_with("d") || cell.starts_with("h"))
+                .map(|cell| text_of(&format!("<t{cell}")))
+                .collect()
+        })
+        .collect()
+}
+
+/// The one `<svg class="class" …>…</svg>` of a page.
+fn svg_block<'a>(html: &'a str, class: &str) -> &'a str {
+    let open = format!("<svg class=\"{class}\"");
+    assert_eq!(html.matches(&open).count(), 1, "expected one {class} chart");
+    let start = html.find(&open).unwrap();
+    &html[start..start + html[start..].find("</svg>").unwrap()]
+}
+
+/// Every (tag, attribute, value) inside an SVG block, parsed strictly: a
+/// value holding a stray quote breaks the structure and fails the parse.
+fn svg_attributes(svg: &str) -> Vec<(String, String, String)> {
+    let mut out = Vec::new();
+    for tag in svg.split('<').skip(1) {
+        let tag = &tag[..tag.find('>').expect("unclosed tag")];
+        if tag.starts_with('/') {
+            continue;
+        }
+        let tag = tag.trim_end_matches('/');
+        let (name, mut rest) = tag.split_once(' ').unwrap_or((tag, ""));
+        while !rest.trim().is_empty() {
+            let (attr, after) = rest
+                .trim_start()
+                .split_once("=\"")
+                .unwrap_or_else(|| panic!("malformed attributes in <{tag}>"));
+            assert!(
+                attr.chars().all(|c| c.is_ascii_alphanumeric() || c == '-'),
+                "odd attribute name {attr:?} in <{tag}>"
+            );
+            let end = after.find('"').expect("unterminated attribute");
+            out.push((name.to_string(), attr.to_string(), after[..end].to_string()));
+            rest = &after[end + 1..];
+        }
+    }
+    out
+}
+
+/// x1 and x2 of the compartment's pH line.
+fn ph_line_x(svg: &str) -> Vec<f64> {
+    svg_attributes(svg)
+        .iter()
+        .skip_while(|(_, attr, value)| !(attr == "class" && value == "ph-line"))
+        .filter(|(_, attr, _)| attr == "x1" || attr == "x2")
+        .take(2)
+        .map(|(_, _, v)| v.parse().unwrap())
+        .collect()
+}
+
+/// The points of every `<polyline class="species-line">`.
+fn species_lines(svg: &str) -> Vec<Vec<(f64, f64)>> {
+    svg_attributes(svg)
+        .into_iter()
+        .filter(|(tag, attr, _)| tag == "polyline" && attr == "points")
+        .map(|(_, _, points)| {
+            points
+                .split(' ')
+                .map(|p| {
+                    let (x, y) = p.split_once(',').unwrap();
+                    (x.parse().unwrap(), y.parse().unwrap())
+                })
+                .collect()
+        })
+        .collect()
+}
+
+#[test]
+fn metabolite_page_shows_species_table_chart_and_conditions() {
+    use gibbsite::site::species_chart::{PLOT_BOTTOM, PLOT_LEFT, PLOT_RIGHT, PLOT_TOP};
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let page = fs::read_to_string(out.join("metabolites/ha_p.html")).unwrap();
+    let text = text_of(&page);
+
+    // The compartment and its conditions.
+    assert!(
+        text.contains("Conditions there pH 7.5, I = 100 mM, T = 298.15 K, ψ = 0 mV"),
+        "{text}"
+    );
+    assert!(
+        text.contains("peri&quot;&lt;b&gt;plasm&lt;&#x2f;b&gt; (p)"),
+        "{text}"
+    );
+    // Where ΔfG'° comes from, in words, and the library entry.
+    assert!(text.contains("ΔfG′° −23.53 ± 0.60 kJ/mol"), "{text}");
+    assert!(text.contains("Computed from the species data given in the model"));
+    assert!(
+        text.contains("Library entry acid-library-key (matched)"),
+        "{text}"
+    );
+    assert!(text.contains("Transformed at pH 7.5, I = 100 mM, T = 298.15 K"));
+
+    // Species table: label, z, nH, nMg, ΔfG°, ΔfH°, ΔfG'° here, fraction.
+    // At pH 7.5 an acid of pK 7 is 1/(1 + 10^−0.5) = 76.0 % base.
+    let rows = table_rows(&page, "data species");
+    assert_eq!(
+        rows[1..],
+        [
+            ["HA", "0", "4", "0", "−339.96", "−480.50", "−20.00", "0.24"],
+            [
+                "A- &quot;&lt;b&gt;base&lt;&#x2f;b&gt;&quot;",
+                "−1",
+                "3",
+                "0",
+                "−300.00",
+                "not given",
+                "−22.85",
+                "0.76"
+            ],
+            [
+                "MgA+",
+                "1",
+                "3",
+                "1",
+                "−760.00",
+                "not given",
+                "left out",
+                "0"
+            ],
+        ]
+    );
+    // Averages over species: 4·0.240 + 3·0.760 = 3.24 H, charge −0.76.
+    assert!(text.contains("Mean H atoms n̄H 3.24"), "{text}");
+    assert!(text.contains("Mean charge z̄ −0.76"), "{text}");
+    assert!(text.contains("HA: invented &lt;b&gt;for the test&lt;&#x2f;b&gt;"));
+    assert!(text.contains("Not drawn (below 0.1 % over the whole range): MgA+."));
+
+    // The chart: pH 4…10 over x = 56…536, i.e. 80 units per pH unit;
+    // fraction 1…0 over y = 24…244.
+    assert_eq!(
+        (PLOT_LEFT, PLOT_RIGHT, PLOT_TOP, PLOT_BOTTOM),
+        (56.0, 536.0, 24.0, 244.0)
+    );
+    let svg = svg_block(&page, "species-chart");
+    let attrs = svg_attributes(svg);
+    // pH 7.5: 56 + 3.5 × 80 = 336.
+    assert_eq!(ph_line_x(svg), [336.0, 336.0]);
+    assert!(
+        svg.contains("peri\"&lt;b&gt;plasm&lt;/b&gt;: pH 7.5"),
+        "{svg}"
+    );
+
+    // Two lines (MgA+ never reaches 0.1 %), 13 points each, pH 4 to 10.
+    let lines = species_lines(svg);
+    assert_eq!(lines.len(), 2);
+    for line in &lines {
+        assert_eq!(line.len(), 13);
+        assert_eq!(line[0].0, 56.0);
+        assert_eq!(line[12].0, 536.0);
+        // At pH = pK (x = 56 + 3 × 80 = 296) both species are at 0.5:
+        // the middle of the plot, (24 + 244) / 2 = 134.
+        assert_eq!(line[6], (296.0, 134.0));
+    }
+    // At pH 4 the acid is 1/(1 + 10³) = 0.0999 % base: HA at
+    // 24 + 0.000999 × 220 = 24.22, A⁻ at 244 − 0.22 = 243.78.
+    assert_eq!(lines[0][0].1, 24.22);
+    assert_eq!(lines[1][0].1, 243.78);
+    // Lines differ by dash pattern, not only by colour.
+    let dashes: Vec<&str> = attrs
+        .iter()
+        .filter(|(tag, attr, _)| tag == "polyline" && attr == "stroke-dasharray")
+        .map(|(_, _, v)| v.as_str())
+        .collect();
+    assert_eq!(
+        dashes,
+        ["9 4"],
+        "the first line is solid, the second dashed"
+    );
+    // Labels at the line ends and in the legend: escaped text content.
+    assert!(svg.contains(">\nHA\n</text>"), "{svg}");
+    assert!(
+        svg.contains(">\nA- \"&lt;b&gt;base&lt;/b&gt;\"\n</text>"),
+        "{svg}"
+    );
+
+    // A metabolite without species: no chart, its problem shown.
+    let acid_c = text_of(&fs::read_to_string(out.join("metabolites/ha_c.html")).unwrap());
+    assert!(acid_c.contains("Given in the model, and taken as valid"));
+    assert!(
+        acid_c.contains("Problem ▲ ACID-PROBLEM: the library entry lacks ΔfH°"),
+        "{acid_c}"
+    );
+    assert!(acid_c.contains("Conditions there pH 7, I = 250 mM, T = 298.15 K, pMg 3, ψ = −100 mV"));
+    assert!(!acid_c.contains("Species"));
+}
+
+#[test]
+fn svg_attributes_never_carry_model_strings() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let tree = read_tree(&out);
+    let mut charts = 0;
+    for (name, html) in html_pages(&tree) {
+        for block in html.split("<svg").skip(1) {
+            let svg = format!("<svg{}", &block[..block.find("</svg>").unwrap()]);
+            charts += 1;
+            for (tag, attr, value) in svg_attributes(&svg) {
+                // Numbers, our own class names and fixed words only.
+                assert!(
+                    value
+                        .chars()
+                        .all(|c| c.is_ascii_alphanumeric() || " .,:;#()/-".contains(c)),
+                    "{name}: <{tag} {attr}={value:?}>"
+                );
+                for model in ["HA", "base", "plasm", "ha_p", "R_", "ATPH", "MgA"] {
+                    assert!(!value.contains(model), "{name}: <{tag} {attr}={value:?}>");
+                }
+            }
+        }
+    }
+    // Range bars on 3 reaction pages and the one species chart.
+    assert_eq!(charts, 4);
+}
+
+#[test]
+fn reaction_page_breaks_down_the_standard_energy() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let page = fs::read_to_string(out.join("reactions/HAT.html")).unwrap();
+    let text = text_of(&page);
+
+    // Σ ν·ΔfG'° term by term, consumed first as the equation reads.
+    let rows = table_rows(&page, "data terms");
+    assert_eq!(
+        rows[1..5],
+        [
+            [
+                "−1",
+                "ha_p",
+                "p pH 7.5",
+                "−23.53 ± 0.60",
+                "model species data",
+                "23.53"
+            ],
+            [
+                "−1",
+                "h_p",
+                "p pH 7.5",
+                "0.00 ± 0.00",
+                "fixed by pH",
+                "0.00"
+            ],
+            [
+                "1",
+                "ha_c",
+                "c pH 7",
+                "−25.00 ± 0.60",
+                "given in the model",
+                "−25.00"
+            ],
+            ["1", "h_c", "c pH 7", "0.00 ± 0.00", "fixed by pH", "0.00"],
+        ]
+    );
+    // 23.53 − 25.00 = −1.47
+    assert_eq!(rows[5], ["Σ ν·ΔfG′°", "−1.47"]);
+    assert_eq!(rows.len(), 6);
+    assert!(page.contains("href=\"../metabolites/ha_p.html\""));
+    // H⁺ of the fixture has no page: plain code, no link.
+    assert!(page.contains("<code>h_p</code>"));
+
+    // Transport terms: −1.47 − 2.854 + 9.6485 = 5.3245 → 5.32.
+    let rows = table_rows(&page, "data transport");
+    let numbers: Vec<(&str, &str)> = rows[1..]
+        .iter()
+        .map(|r| (r[0].as_str(), r[1].as_str()))
+        .collect();
+    assert_eq!(
+        numbers,
+        [
+            ("Formation energies Σ ν·ΔfG′°", "−1.47"),
+            ("Proton term", "−2.85"),
+            ("Electrical term", "9.65"),
+            ("ΔrG′°", "5.32"),
+        ]
+    );
+    assert!(rows[2][2].contains("hydrogen moved between compartments at different pH"));
+    assert!(rows[3][2].contains("charge moved across the membrane potential"));
+    assert!(
+        text.contains("Depends on the reference compartment."),
+        "{text}"
+    );
+    // σ, its allowance at 95 % (1.96 × 0.8485 = 1.663) and K'.
+    assert!(text.contains("ΔrG′° 5.32 ± 0.85 kJ/mol"), "{text}");
+    assert!(text.contains("Allowance (95 % confidence) ± 1.66 kJ/mol (1.96 × σ)"));
+    assert!(text.contains("K′ 0.117"));
+
+    // A reaction given as a whole has no terms section.
+    let atph = fs::read_to_string(out.join("reactions/ATPH.html")).unwrap();
+    assert!(!atph.contains("Terms of ΔrG′°"));
+    // Missing data with their reasons.
+    let unk = text_of(&fs::read_to_string(out.join("reactions/UNK.html")).unwrap());
+    assert!(
+        unk.contains("Also: pi_c: species data lack ΔfH° away from 298.15 K"),
+        "{unk}"
+    );
+}
+
+#[test]
+fn overview_states_the_basis_of_every_verdict_and_the_conditions() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let index = fs::read_to_string(out.join("index.html")).unwrap();
+    let text = text_of(&index);
+    assert!(
+        text.contains(
+            "Every verdict allows ±1.96 σ around ΔrG′° (95 % confidence), lets each \
+             concentration range over 1 µM … 20 mM unless the metabolite has its own range, \
+             and counts a direction as comfortably feasible only with a driving force of at \
+             least 1.00 kJ/mol."
+        ),
+        "{text}"
+    );
+    let rows = table_rows(&index, "data conditions");
+    assert_eq!(
+        rows[1..],
+        [
+            ["c", "cytosol", "7", "250 mM", "−100 mV", "298.15 K", "3"],
+            [
+                "p",
+                "peri&quot;&lt;b&gt;plasm&lt;&#x2f;b&gt;",
+                "7.5",
+                "100 mM",
+                "0 mV",
+                "298.15 K",
+                "—"
+            ],
+        ]
+    );
+}
+
+// ---------------------------------------------------------------------------
+// The demo project, analysed and rendered through the library API.
+
+fn render_demo(out: &Path) -> Report {
+    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
+    let report = gibbsite::Project::load(&dir)
+        .expect("the demo project loads")
+        .analyse();
+    render(&report, None, out).expect("the demo renders");
+    report
+}
+
+#[test]
+fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_demo(&out);
+    let tree = read_tree(&out);
+    check_links(&tree);
+
+    // Errors and warnings of the demo (see tests/demo.rs for why each is
+    // there), in the overview's table: severity, kind, subject, scenario.
+    let index = String::from_utf8(tree["index.html"].clone()).unwrap();
+    let rows = table_rows(&index, "data findings");
+    let listed: Vec<[&str; 4]> = rows[1..]
+        .iter()
+        .map(|r| [r[0].as_str(), r[1].as_str(), r[2].as_str(), r[3].as_str()])
+        .collect();
+    assert_eq!(
+        listed,
+        [
+            ["✖ error", "infeasible-direction", "PEPS", "—"],
+            ["✖ error", "scenario-contradiction", "LDH", "dusk"],
+            ["✖ error", "scenario-contradiction", "PEPS", "dusk"],
+            ["▲ warning", "scenario-marginal", "GAPD", "noon"],
+        ]
+    );
+    // The basis of verdicts: confidence 0.95 gives the two-sided normal
+    // quantile 1.96 (common practice); the demo's default range and
+    // driving force are those of projects/lakeside/gibbsite.yaml.
+    assert!(text_of(&index).contains(
+        "Every verdict allows ±1.96 σ around ΔrG′° (95 % confidence), lets each concentration \
+         range over 1 µM … 10 mM unless the metabolite has its own range, and counts a direction \
+         as comfortably feasible only with a driving force of at least 1.00 kJ/mol."
+    ));
+}
+
+#[test]
+fn demo_pages_show_transport_terms_and_species() {
+    use gibbsite::site::format::energy;
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    let report = render_demo(&out);
+
+    // ATP synthase: 4 H⁺ from the lake water (0 mV) into the cytosol
+    // (−200 mV). Cytosolic charge gained: +3 (3 H⁺) + (−4) (ATP⁴⁻) − (−3)
+    // (ADP³⁻) − (−2) (HPO₄²⁻) = +4, so the electrical term is
+    // F·4·(−0.200 V) = 96.485 kJ/(mol·V) × (−0.8 V) = −77.19 kJ/mol
+    // (F: CODATA 2018; the charge sum as in Jol et al. 2010).
+    let atps = fs::read_to_string(out.join("reactions/ATPS.html")).unwrap();
+    let rows = table_rows(&atps, "data transport");
+    assert_eq!(rows[3][..2], ["Electrical term", "−77.19"]);
+    // The other rows show the report's numbers, and the total is ΔrG'°.
+    let view = report.reactions.iter().find(|r| r.id == "ATPS").unwrap();
+    let t = view.transport.as_ref().unwrap();
+    assert_eq!(rows[1][1], energy(t.formation_sum_kj));
+    assert_eq!(rows[2][1], energy(t.proton_term_kj));
+    assert_eq!(
+        rows[4][..2],
+        ["ΔrG′°", &energy(view.drg_prime.as_ref().unwrap().value_kj)]
+    );
+    // Σ ν·ΔfG'° of the terms table is the formation sum.
+    let terms = table_rows(&atps, "data terms");
+    assert_eq!(terms.last().unwrap()[1], energy(t.formation_sum_kj));
+    assert_eq!(terms.len(), 1 + view.energy_terms.len() + 1);
+
+    // ATP in the cytosol: three species drawn, the Mg complexes left out
+    // (no pMg), and the pH line at pH 7: x = 56 + 3 × 80 = 296.
+    let atp = fs::read_to_string(out.join("metabolites/atp_c.html")).unwrap();
+    let svg = svg_block(&atp, "species-chart");
+    assert_eq!(species_lines(svg).len(), 3);
+    assert_eq!(ph_line_x(svg), [296.0, 296.0]);
+    assert!(text_of(&atp)
+        .contains("Not drawn (below 0.1 % over the whole range): MgATP2-, MgHATP-, Mg2ATP."));
+    // Glucose has one species: a sentence instead of a flat line.
+    let glc = fs::read_to_string(out.join("metabolites/glc_c.html")).unwrap();
+    assert!(!glc.contains("species-chart"));
+    assert!(text_of(&glc)
+        .contains("One species makes up practically the whole reactant from pH 4 to 10"));
 }

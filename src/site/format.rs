@@ -19,6 +19,7 @@ pub fn register(env: &mut Environment<'_>) {
     env.add_filter("num", |v: Option<f64>| opt(v, number));
     env.add_filter("sci", |v: Option<f64>| opt(v, scientific));
     env.add_filter("kprime", |v: Option<f64>| opt(v, k_prime));
+    env.add_filter("fraction", |v: Option<f64>| opt(v, fraction));
     env.add_filter("conc", |v: Option<f64>| opt(v, concentration));
     env.add_filter("coef", |v: f64| coefficient(v));
     env.add_filter("percent", |part: f64, whole: f64| percent(part, whole));
@@ -144,6 +145,18 @@ pub fn k_prime(v: f64) -> String {
     significant(v, 3)
 }
 
+/// Mole fractions: three significant digits, scientific notation below
+/// 10⁻³ so a trace species does not read as "0".
+pub fn fraction(v: f64) -> String {
+    if let Some(s) = non_finite(v) {
+        return s;
+    }
+    if v != 0.0 && v.abs() < 1e-3 {
+        return scientific(v);
+    }
+    significant(v, 3)
+}
+
 /// Concentrations given in mol/L, written with an SI prefix and three
 /// significant digits: 0.001 → "1 mM", 1e-5 → "10 µM".
 pub fn concentration(molar: f64) -> String {
@@ -229,6 +242,15 @@ mod tests {
         assert_eq!(k_prime(3.16e5), "3.16 × 10⁵");
         assert_eq!(k_prime(1e-12), "1 × 10⁻¹²");
         assert_eq!(k_prime(2.5e-4), "2.5 × 10⁻⁴");
+    }
+
+    #[test]
+    fn fractions_keep_traces_visible() {
+        assert_eq!(fraction(0.7740066774667633), "0.774");
+        assert_eq!(fraction(1.0), "1");
+        assert_eq!(fraction(0.5), "0.5");
+        assert_eq!(fraction(1.5147864652007836e-4), "1.51 × 10⁻⁴");
+        assert_eq!(fraction(0.0), "0");
     }
 
     #[test]

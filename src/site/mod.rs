@@ -18,8 +18,10 @@
 //! notes/index.html  notes/<slug>.html      (when the project has notes)
 //! ```
 
+pub mod derived;
 pub mod format;
 pub mod markdown;
+pub mod species_chart;
 pub mod svg;
 pub mod theme;
 pub mod write;
@@ -440,10 +442,18 @@ fn pages(report: &Report) -> Vec<Page> {
                 item => Value::from_serialize(reaction),
                 findings => findings_of(index.reaction_findings.get(reaction.id.as_str())),
                 range_bar => bar.map(Value::from_safe_string),
+                breakdown => derived::breakdown(reaction),
             },
         ));
     }
     for metabolite in &report.metabolites {
+        let species = metabolite.species.as_ref();
+        let place = report
+            .compartments
+            .iter()
+            .find(|c| c.id == metabolite.compartment)
+            .map_or(metabolite.compartment.as_str(), |c| c.name.as_str());
+        let chart = species.and_then(|s| species_chart::species_chart(&metabolite.id, place, s));
         out.push(page(
             "metabolite.html",
             format!("metabolites/{}.html", metabolite.slug),
@@ -452,6 +462,15 @@ fn pages(report: &Report) -> Vec<Page> {
             context! {
                 item => Value::from_serialize(metabolite),
                 findings => findings_of(index.metabolite_findings.get(metabolite.id.as_str())),
+                species_chart => chart.as_ref().map(|c| Value::from_safe_string(c.svg.clone())),
+                // Labels of the species too scarce to draw.
+                not_drawn => chart.as_ref().map(|c| {
+                    c.not_drawn
+                        .iter()
+                        .filter_map(|&k| species.map(|s| s.entries[k].label.clone()))
+                        .collect::<Vec<_>>()
+                }),
+                species_dfg_prime_kj => species.and_then(derived::reactant_dfg_prime_kj),
             },
         ));
     }

@@ -74,7 +74,7 @@ impl Scale {
 }
 
 /// Two decimals keep the SVG short and identical across platforms.
-fn round2(v: f64) -> f64 {
+pub(crate) fn round2(v: f64) -> f64 {
     (v * 100.0).round() / 100.0 + 0.0
 }
 
