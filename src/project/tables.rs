@@ -244,13 +244,10 @@ pub fn apply_side_table(
         let sigma = number("sigma", Kind::Energy).unwrap_or(0.0);
         let source = cell("source").unwrap_or("").to_string();
         let value = if is_reaction_table {
-            match number("drg", Kind::Energy) {
-                Some(v) => Some(RowValue::Reaction {
-                    index,
-                    drg: (v, sigma, source),
-                }),
-                None => None,
-            }
+            number("drg", Kind::Energy).map(|v| RowValue::Reaction {
+                index,
+                drg: (v, sigma, source),
+            })
         } else {
             let dfg = number("dfg", Kind::Energy).map(|v| (v, sigma, source.clone()));
             let dfg0 = number("dfg0", Kind::Energy);
