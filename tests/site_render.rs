@@ -404,6 +404,8 @@ fn fixture() -> Report {
                 slug: "direction-contradiction".into(),
                 title: "Flux directions".into(),
                 description: "Directions that need ΔG' < 0 where the data say ΔG' > 0.".into(),
+                kinds: vec!["direction-contradiction".into()],
+                findings: 1,
             }],
         },
         findings,

@@ -89,6 +89,7 @@ pub const CHECK: super::Check = super::Check {
     slug: "balance",
     title: "Element and charge balance",
     description: "Every internal reaction must conserve atoms and charge (from formulas and charges); ΔG of an unbalanced reaction is meaningless.",
+    kinds: &["mass-imbalance", "charge-imbalance", "unbalance-unchecked"],
     run,
 };
 

@@ -12,6 +12,7 @@ pub const CHECK: Check = Check {
     slug: "bounds",
     title: "Declared directions",
     description: "Each direction the flux bounds allow must be possible for some allowed concentrations (ΔG' < 0 in that direction).",
+    kinds: &["infeasible-direction", "marginal-direction", "one-way-reversible"],
     run,
 };
 

@@ -9,6 +9,7 @@ pub const CHECK: Check = Check {
     slug: "no-energy",
     title: "Data coverage",
     description: "Internal reactions lacking a ΔrG'° (given, or from the formation energies of all participants) cannot be judged.",
+    kinds: &["no-energy-data"],
     run,
 };
 

@@ -11,10 +11,12 @@ pub mod scenario_directions;
 
 /// A registered check.
 pub struct Check {
-    /// Prefix shared by the finding kinds it emits, for the overview.
+    /// Short name of the check.
     pub slug: &'static str,
     pub title: &'static str,
     pub description: &'static str,
+    /// Finding kinds it may report.
+    pub kinds: &'static [&'static str],
     pub run: fn(&Analysis) -> Vec<Finding>,
 }
 

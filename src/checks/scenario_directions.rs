@@ -9,6 +9,7 @@ pub const CHECK: Check = Check {
     slug: "scenario",
     title: "Scenario flux directions",
     description: "In each flux scenario, every active internal reaction must be able to run in the direction of its flux.",
+    kinds: &["scenario-contradiction", "scenario-marginal"],
     run,
 };
 

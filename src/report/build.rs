@@ -61,6 +61,11 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
                 slug: c.slug.to_string(),
                 title: c.title.to_string(),
                 description: c.description.to_string(),
+                kinds: c.kinds.iter().map(|k| k.to_string()).collect(),
+                findings: findings
+                    .iter()
+                    .filter(|f| c.kinds.contains(&f.kind.as_str()))
+                    .count(),
             })
             .collect(),
     };

@@ -140,6 +140,10 @@ pub struct CheckInfo {
     pub slug: String,
     pub title: String,
     pub description: String,
+    /// Finding kinds this check reports.
+    pub kinds: Vec<String>,
+    /// Number of findings it reported.
+    pub findings: usize,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
