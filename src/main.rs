@@ -34,6 +34,14 @@ enum Command {
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
     },
+    /// Convert an SBML model (.xml or .xml.gz) into a gibbsite project folder.
+    Import {
+        /// SBML Level 3 file, plain or gzipped.
+        model: PathBuf,
+        /// Project folder to write (model.yaml and gibbsite.yaml).
+        #[arg(short, long)]
+        output: PathBuf,
+    },
     /// Analyse a project and print the findings; writes nothing.
     Check {
         /// Project folder, gibbsite.yaml, model .yaml or SBML file (.xml, .xml.gz).
@@ -86,6 +94,18 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             print_summary(&report);
             eprintln!("site written to {}", out.display());
             Ok(exit_code(&report, fail_on))
+        }
+        Command::Import { model, output } => {
+            let model = gibbsite::project::sbml::read_sbml(&model)?;
+            gibbsite::project::write::write_project(&model, &output)?;
+            eprintln!(
+                "{} reactions, {} metabolites, {} compartments written to {}",
+                model.reactions.len(),
+                model.metabolites.len(),
+                model.compartments.len(),
+                output.display()
+            );
+            Ok(ExitCode::SUCCESS)
         }
         Command::Check { project, fail_on } => {
             let loaded = Project::load(&project)?;

@@ -13,7 +13,50 @@ pub const CHECK: Check = Check {
     run,
 };
 
+/// Above this many reactions without data, one summary note replaces the
+/// per-reaction notes (each reaction page still lists what it lacks).
+const SUMMARY_ABOVE: usize = 25;
+
 fn run(analysis: &Analysis) -> Vec<Finding> {
+    let out = per_reaction(analysis);
+    if out.len() <= SUMMARY_ABOVE {
+        return out;
+    }
+    // Which formation energies would unlock the most reactions?
+    let mut counts: std::collections::BTreeMap<&str, usize> = Default::default();
+    for f in &out {
+        for m in &f.subjects[1..] {
+            *counts.entry(m.as_str()).or_default() += 1;
+        }
+    }
+    let mut ranked: Vec<(&str, usize)> = counts.into_iter().collect();
+    ranked.sort_by(|a, b| b.1.cmp(&a.1).then(a.0.cmp(b.0)));
+    ranked.truncate(10);
+    let internal = (0..analysis.model.reactions.len())
+        .filter(|&j| analysis.is_thermodynamic(j))
+        .count();
+    vec![Finding {
+        kind: "no-energy-data".into(),
+        severity: Severity::Note,
+        subjects: ranked.iter().map(|(m, _)| m.to_string()).collect(),
+        scenario: None,
+        message: format!(
+            "{} of {internal} internal reactions have no ΔrG'° and cannot be judged; the formation energies missing most often are {}",
+            out.len(),
+            ranked
+                .iter()
+                .map(|(m, n)| format!("`{m}` ({n} reactions)"))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ),
+        evidence: super::evidence(&[
+            ("reactions_without_energy", out.len() as f64),
+            ("internal_reactions", internal as f64),
+        ]),
+    }]
+}
+
+fn per_reaction(analysis: &Analysis) -> Vec<Finding> {
     let mut out = Vec::new();
     for (j, r) in analysis.model.reactions.iter().enumerate() {
         if !analysis.is_thermodynamic(j) {
