@@ -256,3 +256,15 @@ fn same_text_same_model() {
     // Import is deterministic: the same bytes give the same model.
     assert_eq!(parse(L3V2_GROUPS), parse(L3V2_GROUPS));
 }
+
+#[test]
+fn fbc_version_3_reads_like_version_2() {
+    // fbc version 3 keeps version 2's bounds and charges (it adds key-value
+    // annotations, which are not read).
+    let v3 = L3V2_GROUPS.replace("fbc/version2", "fbc/version3");
+    assert_ne!(v3, L3V2_GROUPS);
+    let (m2, m3) = (parse(L3V2_GROUPS), parse(&v3));
+    assert_eq!(m2, m3);
+    assert_eq!(reaction(&m3, "ATPase").upper_bound, f64::INFINITY);
+    assert_eq!(m3.metabolites[0].charge, Some(-4));
+}
