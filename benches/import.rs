@@ -2,7 +2,9 @@
 //! (first import of the process, best and median of several runs), the best
 //! CPU time of the importing
 //! thread, the time of the balance check, and the peak resident memory
-//! (VmHWM) of a process that imports that one model.
+//! (VmHWM) of a process that imports that one model. It then writes the
+//! model as gibbsite YAML (what `gibbsite import` writes) and times loading
+//! that YAML back (best of several runs, with and without serde_yaml alone).
 //!
 //! Run (release profile):
 //!     cargo bench --bench import
@@ -57,7 +59,7 @@ fn main() {
         paths.sort();
     }
     println!(
-        "{:<20} {:>9} {:>8} {:>8} {:>8} {:>8} {:>9} {:>8} {:>10} {:>8}",
+        "{:<20} {:>9} {:>8} {:>8} {:>8} {:>8} {:>9} {:>8} {:>10} {:>8} {:>8} {:>11} {:>12}",
         "model",
         "reactions",
         "species",
@@ -67,7 +69,10 @@ fn main() {
         "median s",
         "cpu s",
         "balance s",
-        "peak MB"
+        "peak MB",
+        "yaml MB",
+        "yaml load s",
+        "serde_yaml s"
     );
     let me = std::env::current_exe().expect("own executable path");
     for path in paths {
@@ -110,12 +115,14 @@ fn measure(path: &Path) {
     let first = times[0];
     times.sort();
     cpu_times.sort();
+    let peak_import = peak_memory_mb().unwrap_or(f64::NAN);
+    let (yaml_mb, yaml_load, serde_only) = yaml_round(&model);
     let file_mb = std::fs::metadata(path).map_or(0.0, |m| m.len() as f64 / 1e6);
     let name = path
         .file_name()
         .map_or_else(String::new, |n| n.to_string_lossy().into_owned());
     println!(
-        "{:<20} {:>9} {:>8} {:>8.2} {:>8.3} {:>8.3} {:>9.3} {:>8.3} {:>10.3} {:>8.1}",
+        "{:<20} {:>9} {:>8} {:>8.2} {:>8.3} {:>8.3} {:>9.3} {:>8.3} {:>10.3} {:>8.1} {:>8.2} {:>11.3} {:>12.3}",
         name,
         model.reactions.len(),
         model.metabolites.len(),
@@ -125,8 +132,36 @@ fn measure(path: &Path) {
         times[times.len() / 2].as_secs_f64(),
         cpu_times[0].as_secs_f64(),
         balance_time.as_secs_f64(),
-        peak_memory_mb().unwrap_or(f64::NAN),
+        peak_import,
+        yaml_mb,
+        yaml_load.as_secs_f64(),
+        serde_only.as_secs_f64(),
     );
+}
+
+/// Write the model as gibbsite YAML, then time loading it back: the full
+/// loader (parse + validation into a Model) and serde_yaml's parse alone,
+/// to show how much of the time the YAML crate takes.
+fn yaml_round(model: &gibbsite::model::Model) -> (f64, Duration, Duration) {
+    let dir = tempfile::tempdir().expect("temporary folder");
+    gibbsite::project::write::write_project(model, dir.path()).expect("YAML written");
+    let file = dir.path().join("model.yaml");
+    let text = std::fs::read_to_string(&file).expect("YAML readable");
+    let mut full = Duration::MAX;
+    let mut serde_only = Duration::MAX;
+    for _ in 0..RUNS {
+        let start = Instant::now();
+        let back = gibbsite::project::load_model_files(std::slice::from_ref(&file), &[])
+            .expect("written YAML loads");
+        full = full.min(start.elapsed());
+        std::hint::black_box(back);
+        let start = Instant::now();
+        let raw: gibbsite::project::schema::RawModelFile =
+            serde_yaml::from_str(&text).expect("YAML parses");
+        serde_only = serde_only.min(start.elapsed());
+        std::hint::black_box(raw);
+    }
+    (text.len() as f64 / 1e6, full, serde_only)
 }
 
 /// CPU time this thread has run (first field of
