@@ -150,6 +150,17 @@ impl<'a> Analysis<'a> {
 
     fn compute_reaction(&self, j: usize) -> Result<ReactionThermo, MissingEnergy> {
         let r = &self.model.reactions[j];
+        if !self.is_thermodynamic(j) {
+            // Exchange, demand, sink and biomass steps move matter across the
+            // model's boundary; a Gibbs energy of them means nothing.
+            return Err(MissingEnergy {
+                metabolites: Vec::new(),
+                reasons: vec![format!(
+                    "{} reactions cross the model boundary and have no ΔrG'°",
+                    r.role.slug()
+                )],
+            });
+        }
         let temperature_k = self.reaction_temperature(j);
         let (drg0_kj, sigma_kj, origin, source, transport) = match &r.drg_prime {
             Some(e) => (

@@ -125,7 +125,7 @@ pub struct Summary {
     pub errors: usize,
     pub warnings: usize,
     pub notes: usize,
-    /// Reactions with a ΔrG'° (from any origin).
+    /// Internal reactions with a ΔrG'° (from any origin).
     pub reactions_with_energy: usize,
     /// Metabolites with a ΔfG'° (from any origin).
     pub metabolites_with_energy: usize,
