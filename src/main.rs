@@ -5,7 +5,7 @@
 //! 1 = at least one such finding, 2 = bad input or usage.
 
 use clap::{Parser, Subcommand, ValueEnum};
-use gibbsite::report::{Report, Severity};
+use gibbsite::report::{baseline, Report, Severity};
 use gibbsite::{Error, Project};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -33,6 +33,9 @@ enum Command {
         output: Option<PathBuf>,
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
+        /// Earlier report.json: only findings not in it decide the exit code.
+        #[arg(long)]
+        baseline: Option<PathBuf>,
     },
     /// Convert an SBML model (.xml or .xml.gz) into a gibbsite project folder.
     Import {
@@ -48,7 +51,26 @@ enum Command {
         project: PathBuf,
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
+        /// Earlier report.json: only findings not in it decide the exit code.
+        #[arg(long)]
+        baseline: Option<PathBuf>,
+        /// What to print on standard output.
+        #[arg(long, value_enum, default_value_t = Format::Text)]
+        format: Format,
     },
+}
+
+/// Output of `check`.
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+enum Format {
+    /// One line per finding.
+    Text,
+    /// The full report (as report.json).
+    Json,
+    /// SARIF 2.1.0 for code-scanning tools.
+    Sarif,
+    /// A Markdown summary for CI job pages.
+    Markdown,
 }
 
 /// Which findings make the run exit with 1.
@@ -86,14 +108,16 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             project,
             output,
             fail_on,
+            baseline,
         } => {
+            let baseline = baseline.as_deref().map(baseline::load).transpose()?;
             let loaded = Project::load(&project)?;
             let report = loaded.analyse();
             let out = output.unwrap_or_else(|| default_output(&project));
             gibbsite::site::render(&report, loaded.settings.theme_dir.as_deref(), &out)?;
             print_summary(&report);
             eprintln!("site written to {}", out.display());
-            Ok(exit_code(&report, fail_on))
+            Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
         Command::Import { model, output } => {
             let model = gibbsite::project::sbml::read_sbml(&model)?;
@@ -107,12 +131,33 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             );
             Ok(ExitCode::SUCCESS)
         }
-        Command::Check { project, fail_on } => {
+        Command::Check {
+            project,
+            fail_on,
+            baseline,
+            format,
+        } => {
+            let baseline = baseline.as_deref().map(baseline::load).transpose()?;
             let loaded = Project::load(&project)?;
             let report = loaded.analyse();
-            print!("{}", gibbsite::report::text::findings_text(&report));
+            let model_file = loaded
+                .settings
+                .model_files
+                .first()
+                .map(|p| p.to_string_lossy().into_owned());
+            match format {
+                Format::Text => print!("{}", gibbsite::report::text::findings_text(&report)),
+                Format::Json => print!("{}", gibbsite::report::json::to_json(&report)),
+                Format::Sarif => print!(
+                    "{}",
+                    gibbsite::report::sarif::to_sarif(&report, model_file.as_deref())
+                ),
+                Format::Markdown => {
+                    print!("{}", gibbsite::report::summary::to_markdown(&report, 50))
+                }
+            }
             print_summary(&report);
-            Ok(exit_code(&report, fail_on))
+            Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
     }
 }
@@ -144,11 +189,22 @@ fn print_summary(report: &Report) {
     );
 }
 
-fn exit_code(report: &Report, fail_on: FailOn) -> ExitCode {
+/// 1 when a finding at or above the `fail_on` level exists (with a
+/// baseline: one that the baseline does not have).
+fn exit_code(report: &Report, fail_on: FailOn, baseline: Option<&Report>) -> ExitCode {
+    let counted: Vec<&gibbsite::report::Finding> = match baseline {
+        Some(b) => {
+            let new = baseline::new_findings(report, b);
+            eprintln!("{} findings are new since the baseline", new.len());
+            new
+        }
+        None => report.findings.iter().collect(),
+    };
+    let at_least = |s: Severity| counted.iter().filter(|f| f.severity <= s).count() > 0;
     let failing = match fail_on {
         FailOn::Never => false,
-        FailOn::Error => report.count(Severity::Error) > 0,
-        FailOn::Warning => report.count(Severity::Error) + report.count(Severity::Warning) > 0,
+        FailOn::Error => at_least(Severity::Error),
+        FailOn::Warning => at_least(Severity::Warning),
     };
     if failing {
         ExitCode::from(1)

@@ -5,8 +5,11 @@
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 
+pub mod baseline;
 pub mod build;
 pub mod json;
+pub mod sarif;
+pub mod summary;
 pub mod text;
 
 /// Version of the `report.json` shape; bump on breaking changes.

@@ -1,0 +1,30 @@
+//! Comparing a report with an earlier one, so CI fails only on findings that
+//! are new since that baseline (identity: kind, subjects and scenario).
+
+use super::sarif::fingerprint;
+use super::{Finding, Report};
+use crate::error::{Diagnostic, Error, Result};
+use std::collections::HashSet;
+use std::path::Path;
+
+/// Read a `report.json` written by an earlier run.
+pub fn load(path: &Path) -> Result<Report> {
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| Error::input(Diagnostic::new(path, format!("cannot read baseline: {e}"))))?;
+    serde_json::from_str(&text).map_err(|e| {
+        Error::input(
+            Diagnostic::new(path, format!("not a gibbsite report.json: {e}"))
+                .at(e.line(), e.column()),
+        )
+    })
+}
+
+/// Findings of `report` that the baseline does not have.
+pub fn new_findings<'a>(report: &'a Report, baseline: &Report) -> Vec<&'a Finding> {
+    let known: HashSet<String> = baseline.findings.iter().map(fingerprint).collect();
+    report
+        .findings
+        .iter()
+        .filter(|f| !known.contains(&fingerprint(f)))
+        .collect()
+}

@@ -1,0 +1,86 @@
+//! Outputs for CI: SARIF, the Markdown summary, and failing only on findings
+//! that are new since a baseline report.
+
+use gibbsite::report::{sarif, summary};
+use gibbsite::Project;
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+fn demo() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside")
+}
+
+#[test]
+fn sarif_lists_every_finding_with_level_rule_and_stable_fingerprint() {
+    let report = Project::load(&demo()).unwrap().analyse();
+    let text = sarif::to_sarif(&report, Some("projects/lakeside/model.yaml"));
+    let v: serde_json::Value = serde_json::from_str(&text).unwrap();
+    assert_eq!(v["version"], "2.1.0");
+    let results = v["runs"][0]["results"].as_array().unwrap();
+    assert_eq!(results.len(), report.findings.len());
+    let errors = results.iter().filter(|r| r["level"] == "error").count();
+    assert_eq!(errors, report.summary.errors);
+    let first = &results[0];
+    assert_eq!(first["ruleId"], "infeasible-direction");
+    assert_eq!(first["locations"][0]["logicalLocations"][0]["name"], "PEPS");
+    assert_eq!(
+        first["locations"][0]["physicalLocation"]["artifactLocation"]["uri"],
+        "projects/lakeside/model.yaml"
+    );
+    let rules = v["runs"][0]["tool"]["driver"]["rules"].as_array().unwrap();
+    assert!(rules.iter().any(|r| r["id"] == "scenario-contradiction"));
+    // Same finding, same fingerprint, run after run; different findings differ.
+    let again = Project::load(&demo()).unwrap().analyse();
+    assert_eq!(
+        sarif::fingerprint(&report.findings[0]),
+        sarif::fingerprint(&again.findings[0])
+    );
+    assert_ne!(
+        sarif::fingerprint(&report.findings[1]),
+        sarif::fingerprint(&report.findings[2])
+    );
+}
+
+#[test]
+fn markdown_summary_has_counts_table_and_caution() {
+    let mut report = Project::load(&demo()).unwrap().analyse();
+    report.findings[0].message = "a | b <script>".into();
+    let md = summary::to_markdown(&report, 2);
+    assert!(md.contains("**3 errors, 1 warnings, 3 notes**"), "{md}");
+    assert!(md.contains("a \\| b &lt;script&gt;"), "{md}");
+    assert!(md.contains("… and 2 more in the report."), "{md}");
+    assert!(md.contains("expert review"));
+}
+
+fn gibbsite(args: &[&str], dir: &Path) -> i32 {
+    Command::new(env!("CARGO_BIN_EXE_gibbsite"))
+        .args(args)
+        .arg(dir)
+        .output()
+        .unwrap()
+        .status
+        .code()
+        .unwrap()
+}
+
+#[test]
+fn baseline_makes_only_new_findings_fail() {
+    let tmp = tempfile::tempdir().unwrap();
+    let baseline = tmp.path().join("report.json");
+    std::fs::write(
+        &baseline,
+        gibbsite::report::json::to_json(&Project::load(&demo()).unwrap().analyse()),
+    )
+    .unwrap();
+    let b = baseline.to_str().unwrap();
+    // Nothing new since the baseline: exit 0 even with errors in the report.
+    assert_eq!(gibbsite(&["check", "--baseline", b], &demo()), 0);
+    // A baseline without the errors: they are new, exit 1.
+    let mut old = Project::load(&demo()).unwrap().analyse();
+    old.findings.retain(|f| f.kind != "scenario-contradiction");
+    std::fs::write(&baseline, gibbsite::report::json::to_json(&old)).unwrap();
+    assert_eq!(gibbsite(&["check", "--baseline", b], &demo()), 1);
+    // A broken baseline is bad input.
+    std::fs::write(&baseline, "{ not json").unwrap();
+    assert_eq!(gibbsite(&["check", "--baseline", b], &demo()), 2);
+}
