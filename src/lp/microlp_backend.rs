@@ -153,9 +153,7 @@ impl LpSession {
         let outcome = problem.solve().map_err(convert_error)?;
         let (mut state, mut current) = read_outcome(outcome, &vars)?;
         for (&index, &value) in &self.fixes {
-            let outcome = state
-                .fix_var(vars[index], value)
-                .map_err(convert_error)?;
+            let outcome = state.fix_var(vars[index], value).map_err(convert_error)?;
             (state, current) = read_outcome(outcome, &vars)?;
         }
         self.vars = vars;
