@@ -5,6 +5,7 @@
 //! about the cone C = {v : S·v = 0, v_r ≥ 0 for forward-only r, v_r ≤ 0 for
 //! backward-only r}. The method:
 //!
+//! 0. Linear chains are compressed (`compress`, exact).
 //! 1. Irreversible reactions (one allowed direction), oriented forward: a
 //!    FASTCC-style LP (Vlassis et al., PLoS Comput. Biol. 10 (2014)
 //!    e1003424) maximises Σ min(vᵢ, ε) over those not yet seen carrying
@@ -17,30 +18,34 @@
 //!    reaction can carry flux exactly when its coordinate is not identically
 //!    zero on that null space: one sparse elimination and a few random
 //!    null-space vectors decide all of them together.
-//! 3. Directions of reversible reactions: read off v° and v° ± t·w; a
-//!    reversible reaction whose null-space row is a multiple of a capable
-//!    irreversible reaction's row (fully coupled) has only that sign;
-//!    what remains gets one small LP per direction, warm-started.
+//! 3. Directions of reversible reactions, on the network of the reactions
+//!    found in 1–2, compressed again (the blocked ones gone, many more chains
+//!    appear): read off v° and v° ± t·w; a reversible column whose
+//!    null-space row is a multiple of an irreversible column's row (fully
+//!    coupled) has only that sign; what remains gets one feasibility LP per
+//!    direction (flux fixed at ±1 in the unboxed cone), warm-started, each
+//!    solution settling every other direction it shows.
 
+use super::compress::{compress, Compressed};
 use super::network::Directions;
 use super::nullspace::Elimination;
 use super::tolerance::{
-    COUPLING_MATCH, FASTCC_EPSILON, FLUX_BOX, FLUX_NONZERO, NULLSPACE_NONZERO, NULLSPACE_SAMPLES,
-    RANDOM_SEED,
+    COUPLING_MATCH, FASTCC_EPSILON, FASTCC_SETTLED, FLUX_NONZERO, NULLSPACE_NONZERO,
+    NULLSPACE_SAMPLES, RANDOM_SEED,
 };
-use crate::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
+use crate::lp::{LinearProgram, LpError, LpSession, LpSolution, Relation, Sense, Var};
 use std::collections::BTreeMap;
 
 /// Result of the capability analysis, indexed like the input.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Default)]
 pub struct Capability {
     /// Per reaction: directions in which it can carry nonzero flux.
     pub capable: Vec<Directions>,
     /// Number of LP solves (fresh or warm edits).
     pub lp_solves: usize,
-    /// Reversible reactions decided by the null-space test alone.
-    pub reversible_decided_by_null_space: usize,
-    /// Directions of reversible reactions that needed their own LP.
+    /// Reversible reactions shown blocked by the null-space test.
+    pub reversible_blocked_by_null_space: usize,
+    /// Directions of reversible (merged) columns that needed their own LP.
     pub direction_lps: usize,
 }
 
@@ -58,7 +63,7 @@ struct Oriented {
 }
 
 impl Oriented {
-    fn new(columns: &[Vec<(usize, f64)>], allowed: &[Directions], keep: &[bool]) -> Oriented {
+    fn new(columns: &[Vec<(usize, f64)>], allowed: &[Directions]) -> Oriented {
         let mut row_of: BTreeMap<usize, usize> = BTreeMap::new();
         let mut out = Oriented {
             reaction: Vec::new(),
@@ -68,7 +73,7 @@ impl Oriented {
             row_count: 0,
         };
         for (r, column) in columns.iter().enumerate() {
-            if !keep[r] || !allowed[r].any() {
+            if !allowed[r].any() {
                 continue;
             }
             let sign = if allowed[r].forward { 1.0 } else { -1.0 };
@@ -92,21 +97,36 @@ impl Oriented {
         self.reaction.len()
     }
 
-    /// The LP skeleton: oriented fluxes in the normalised box and the
-    /// steady-state rows, over the local columns with `keep_local`.
-    fn flux_lp(&self, sense: Sense, keep_local: &[bool]) -> (LinearProgram, Vec<Option<Var>>) {
-        let mut lp = LinearProgram::new(sense);
-        let vars: Vec<Option<Var>> = (0..self.len())
+    /// The LP skeleton over the local columns with `keep_local`: oriented
+    /// fluxes, unbounded on their open side (the cone itself; a box only
+    /// adds bound-flipping work for the simplex), and the steady-state rows.
+    /// A column marked in `split` is written as z + s with z ∈ [0, ε]
+    /// carrying cost 1 and s ≥ 0: the FASTCC objective Σ min(v, ε) without
+    /// an extra row per target, which keeps the LP basis small.
+    fn flux_lp(&self, keep_local: &[bool], split: &[bool]) -> FluxLp {
+        let mut lp = LinearProgram::new(Sense::Maximise);
+        let parts: Vec<Vec<Var>> = (0..self.len())
             .map(|k| {
-                keep_local[k].then(|| {
-                    let lower = if self.reversible[k] { -FLUX_BOX } else { 0.0 };
-                    lp.add_variable(0.0, lower, FLUX_BOX)
-                })
+                if !keep_local[k] {
+                    Vec::new()
+                } else if split[k] {
+                    vec![
+                        lp.add_variable(1.0, 0.0, FASTCC_EPSILON),
+                        lp.add_variable(0.0, 0.0, f64::INFINITY),
+                    ]
+                } else {
+                    let lower = if self.reversible[k] {
+                        f64::NEG_INFINITY
+                    } else {
+                        0.0
+                    };
+                    vec![lp.add_variable(0.0, lower, f64::INFINITY)]
+                }
             })
             .collect();
         let mut rows: Vec<Vec<(Var, f64)>> = vec![Vec::new(); self.row_count];
         for (k, column) in self.columns.iter().enumerate() {
-            if let Some(var) = vars[k] {
+            for &var in &parts[k] {
                 for &(i, c) in column {
                     rows[i].push((var, c));
                 }
@@ -115,7 +135,28 @@ impl Oriented {
         for row in rows.iter().filter(|r| !r.is_empty()) {
             lp.add_row(row, Relation::Equal, 0.0);
         }
-        (lp, vars)
+        FluxLp { lp, parts }
+    }
+}
+
+/// An LP over oriented fluxes; a flux may be the sum of several variables.
+struct FluxLp {
+    lp: LinearProgram,
+    parts: Vec<Vec<Var>>,
+}
+
+impl FluxLp {
+    /// Flux of local column `k` in a solution (0 when not in the LP).
+    fn flux(&self, solution: &LpSolution, k: usize) -> f64 {
+        self.parts[k].iter().map(|&v| solution.value(v)).sum()
+    }
+
+    /// The single variable of an unsplit column.
+    fn var(&self, k: usize) -> Option<Var> {
+        match self.parts[k][..] {
+            [v] => Some(v),
+            _ => None,
+        }
     }
 }
 
@@ -136,65 +177,159 @@ impl Seen {
 }
 
 /// Decides, for every reaction, the directions in which it can carry flux
-/// in the cone given by `columns` and `allowed` (directions already pruned).
+/// in the cone given by `columns` and `allowed`.
 pub fn capable_directions(
     columns: &[Vec<(usize, f64)>],
     allowed: &[Directions],
 ) -> Result<Capability, LpError> {
-    let keep = vec![true; columns.len()];
-    let net = Oriented::new(columns, allowed, &keep);
+    let metabolite_count = columns
+        .iter()
+        .flatten()
+        .map(|(m, _)| m + 1)
+        .max()
+        .unwrap_or(0);
+    let mut result = Capability {
+        capable: vec![Directions::NONE; columns.len()],
+        ..Capability::default()
+    };
+
+    // Stages 1 and 2: which reactions carry flux at all.
+    let first = compress(metabolite_count, columns, allowed);
+    let support = support_of(&first, &mut result)?;
+    let mut support_allowed = vec![Directions::NONE; columns.len()];
+    let mut interior = vec![0.0; columns.len()];
+    for (j, merged) in first.merged.iter().enumerate() {
+        if support.carries[j] {
+            for &(r, factor) in &merged.members {
+                support_allowed[r] = follow(merged.allowed, factor);
+                interior[r] = factor * support.interior[j];
+            }
+        }
+    }
+
+    // Stage 3: directions, on the support compressed again.
+    let second = compress(metabolite_count, columns, &support_allowed);
+    let second_interior: Vec<f64> = second
+        .merged
+        .iter()
+        .map(|m| {
+            let (r, factor) = m.members[0];
+            interior[r] / factor
+        })
+        .collect();
+    let directions = directions_of(&second, &second_interior, &mut result)?;
+    result.capable = second.expand(&directions, columns.len());
+    Ok(result)
+}
+
+/// Directions of a member reaction that follows a merged flux with `factor`.
+fn follow(directions: Directions, factor: f64) -> Directions {
+    if factor > 0.0 {
+        directions
+    } else {
+        Directions {
+            forward: directions.backward,
+            backward: directions.forward,
+        }
+    }
+}
+
+fn merged_network(compressed: &Compressed) -> Oriented {
+    let columns: Vec<Vec<(usize, f64)>> =
+        compressed.merged.iter().map(|m| m.column.clone()).collect();
+    let allowed: Vec<Directions> = compressed.merged.iter().map(|m| m.allowed).collect();
+    let net = Oriented::new(&columns, &allowed);
+    // Merged columns all have a direction, so local index = merged index.
+    debug_assert_eq!(net.len(), compressed.merged.len());
+    net
+}
+
+/// Which merged columns carry flux, and a flux (merged coordinates) with
+/// every capable irreversible column strictly inside its direction.
+struct Support {
+    carries: Vec<bool>,
+    interior: Vec<f64>,
+}
+
+fn support_of(compressed: &Compressed, result: &mut Capability) -> Result<Support, LpError> {
+    let net = merged_network(compressed);
     let n = net.len();
-    let mut lp_solves = 0;
     let mut seen = Seen {
         positive: vec![false; n],
         negative: vec![false; n],
     };
 
-    // Step 1: FASTCC-style rounds over the irreversible reactions.
+    // Step 1: FASTCC-style LP over the irreversible columns. In the
+    // unboxed cone every capable target can reach z = ε at once (add the
+    // fluxes that show each one and scale up), so the optimum is ε times the
+    // number of capable targets and every optimal solution has z = ε on each
+    // of them: one proven-optimal solve settles all targets whose z is 0 or ε.
+    // Only if round-off leaves a z in between does another round follow.
     let all = vec![true; n];
     let mut targets: Vec<usize> = (0..n).filter(|&k| !net.reversible[k]).collect();
     let mut interior = vec![0.0; n];
     while !targets.is_empty() {
-        let (mut lp, vars) = net.flux_lp(Sense::Maximise, &all);
+        let mut split = vec![false; n];
         for &k in &targets {
-            let z = lp.add_variable(1.0, 0.0, FASTCC_EPSILON);
-            let v = vars[k].expect("all local columns kept");
-            lp.add_row(&[(z, 1.0), (v, -1.0)], Relation::LessOrEqual, 0.0);
+            split[k] = true;
         }
-        let solution = lp.solve()?;
-        lp_solves += 1;
+        let fastcc = net.flux_lp(&all, &split);
+        let solution = fastcc.lp.solve()?;
+        result.lp_solves += 1;
         if solution.objective < FLUX_NONZERO {
             break;
         }
-        for k in 0..n {
-            let value = solution.value(vars[k].expect("kept"));
-            seen.record(k, value);
-            interior[k] += value;
+        for (k, value) in interior.iter_mut().enumerate() {
+            let flux = fastcc.flux(&solution, k);
+            seen.record(k, flux);
+            *value += flux;
         }
+        let settled = targets.iter().all(|&k| {
+            let z = solution.value(fastcc.parts[k][0]);
+            z <= FLUX_NONZERO || z >= FASTCC_EPSILON * (1.0 - FASTCC_SETTLED)
+        });
         let before = targets.len();
         targets.retain(|&k| !seen.positive[k]);
+        if settled {
+            break;
+        }
         if targets.len() == before {
             // Objective spread too thin to read: settle the rest one by one.
-            lp_solves += single_irreversible_checks(&net, &targets, &mut seen, &mut interior)?;
+            result.lp_solves +=
+                single_irreversible_checks(&net, &targets, &mut seen, &mut interior)?;
             break;
         }
     }
-    let irreversible_capable: Vec<bool> = (0..n)
+    let mut carries: Vec<bool> = (0..n)
         .map(|k| !net.reversible[k] && seen.positive[k])
         .collect();
 
-    // Step 2: null space of the matrix without blocked irreversible columns.
-    let in_reduced: Vec<bool> = (0..n)
-        .map(|k| net.reversible[k] || irreversible_capable[k])
+    // Step 2: reversible columns by the null space without blocked columns.
+    let reduced: Vec<usize> = (0..n)
+        .filter(|&k| net.reversible[k] || carries[k])
         .collect();
-    let reduced_index: Vec<usize> = (0..n).filter(|&k| in_reduced[k]).collect();
-    let reduced_columns: Vec<Vec<(usize, f64)>> = reduced_index
-        .iter()
-        .map(|&k| net.columns[k].clone())
-        .collect();
-    let elimination = Elimination::new(net.row_count, &reduced_columns);
+    let samples = null_space_samples(&net, &reduced);
+    for (local, &k) in reduced.iter().enumerate() {
+        if net.reversible[k] {
+            carries[k] = samples.iter().any(|w| w[local].abs() >= NULLSPACE_NONZERO);
+            if !carries[k] {
+                result.reversible_blocked_by_null_space += 1;
+            }
+        }
+    }
+    Ok(Support {
+        carries,
+        interior: (0..n).map(|k| net.sign[k] * interior[k]).collect(),
+    })
+}
+
+/// A few random null-space vectors of the columns `reduced` of `net`, each
+/// scaled to largest |coordinate| 1, indexed like `reduced`.
+fn null_space_samples(net: &Oriented, reduced: &[usize]) -> Vec<Vec<f64>> {
+    let columns: Vec<Vec<(usize, f64)>> = reduced.iter().map(|&k| net.columns[k].clone()).collect();
+    let elimination = Elimination::new(net.row_count, &columns);
     let mut rng = fastrand::Rng::with_seed(RANDOM_SEED);
-    let samples: Vec<Vec<f64>> = (0..NULLSPACE_SAMPLES)
+    (0..NULLSPACE_SAMPLES)
         .map(|_| {
             let free: Vec<f64> = (0..elimination.nullity())
                 .map(|_| rng.f64() * 2.0 - 1.0)
@@ -207,87 +342,67 @@ pub fn capable_directions(
                 w
             }
         })
-        .collect();
-    let mut null_nonzero = vec![false; n];
-    for (local, &k) in reduced_index.iter().enumerate() {
-        null_nonzero[k] = samples.iter().any(|w| w[local].abs() >= NULLSPACE_NONZERO);
-    }
-    let reversible_decided_by_null_space = (0..n)
-        .filter(|&k| net.reversible[k] && !null_nonzero[k])
-        .count();
+        .collect()
+}
 
-    // Step 3a: signs along v° ± t·w, t up to where an irreversible flux hits 0.
+/// Capable directions of every merged column of a network in which every
+/// column carries flux; `interior` (merged coordinates) is a flux of the
+/// cone with the irreversible columns strictly inside their direction.
+fn directions_of(
+    compressed: &Compressed,
+    interior: &[f64],
+    result: &mut Capability,
+) -> Result<Vec<Directions>, LpError> {
+    let net = merged_network(compressed);
+    let n = net.len();
+    let oriented: Vec<f64> = (0..n).map(|k| net.sign[k] * interior[k]).collect();
+    let mut seen = Seen {
+        positive: vec![false; n],
+        negative: vec![false; n],
+    };
+    for (k, &value) in oriented.iter().enumerate() {
+        seen.record(k, value);
+    }
+    let everything: Vec<usize> = (0..n).collect();
+    let samples = null_space_samples(&net, &everything);
+
+    // Signs along v° ± t·w, t up to where an irreversible flux hits 0.
     for w in &samples {
         for direction in [1.0, -1.0] {
             let mut t_max = f64::INFINITY;
-            for (local, &k) in reduced_index.iter().enumerate() {
-                let step = direction * w[local];
+            for k in 0..n {
+                let step = direction * w[k];
                 if !net.reversible[k] && step < 0.0 {
-                    t_max = t_max.min(interior[k] / -step);
+                    t_max = t_max.min(oriented[k].max(0.0) / -step);
                 }
             }
             let t = if t_max.is_finite() { 0.9 * t_max } else { 1.0 };
-            for (local, &k) in reduced_index.iter().enumerate() {
-                if net.reversible[k] && null_nonzero[k] {
-                    seen.record(k, interior[k] + t * direction * w[local]);
+            for k in 0..n {
+                if net.reversible[k] {
+                    seen.record(k, oriented[k] + t * direction * w[k]);
                 }
             }
         }
     }
 
-    // Step 3b: full coupling to a capable irreversible reaction fixes the sign.
-    let mut impossible_positive = vec![false; n];
-    let mut impossible_negative = vec![false; n];
-    let coupling_key = |local: usize| -> Option<Vec<f64>> {
-        let row: Vec<f64> = samples.iter().map(|w| w[local]).collect();
-        let pivot = row.iter().copied().find(|x| x.abs() >= NULLSPACE_NONZERO)?;
-        Some(row.iter().map(|x| x / pivot).collect())
-    };
-    let mut irreversible_rows: Vec<(Vec<f64>, f64, usize)> = Vec::new();
-    for (local, &k) in reduced_index.iter().enumerate() {
-        if !net.reversible[k] {
-            if let Some(key) = coupling_key(local) {
-                let pivot = samples
-                    .iter()
-                    .map(|w| w[local])
-                    .find(|x| x.abs() >= NULLSPACE_NONZERO)
-                    .expect("key exists");
-                irreversible_rows.push((key, pivot, k));
-            }
-        }
-    }
-    irreversible_rows.sort_by(|a, b| compare_keys(&a.0, &b.0));
-    for (local, &k) in reduced_index.iter().enumerate() {
-        if !net.reversible[k] || !null_nonzero[k] || (seen.positive[k] && seen.negative[k]) {
-            continue;
-        }
-        let Some(key) = coupling_key(local) else {
-            continue;
-        };
-        let position = irreversible_rows.partition_point(|row| compare_keys(&row.0, &key).is_lt());
-        for candidate in irreversible_rows[position..]
-            .iter()
-            .take_while(|row| keys_match(&row.0, &key))
-            .take(1)
-        {
-            let own_pivot = samples
-                .iter()
-                .map(|w| w[local])
-                .find(|x| x.abs() >= NULLSPACE_NONZERO)
-                .expect("key exists");
-            // u_k = (own_pivot / candidate_pivot)·u_p with u_p ≥ 0.
-            if own_pivot / candidate.1 > 0.0 {
-                impossible_negative[k] = true;
-            } else {
-                impossible_positive[k] = true;
+    // A null-space vector of the reversible columns alone is a loop that
+    // runs both ways (it and its negative lie in the cone).
+    let reversible: Vec<usize> = (0..n).filter(|&k| net.reversible[k]).collect();
+    for w in null_space_samples(&net, &reversible) {
+        for (local, &k) in reversible.iter().enumerate() {
+            if w[local].abs() >= NULLSPACE_NONZERO {
+                seen.positive[k] = true;
+                seen.negative[k] = true;
             }
         }
     }
 
-    // Step 3c: one warm-started LP per direction still open.
+    // Full coupling to an irreversible column fixes the sign.
+    let (impossible_positive, impossible_negative) = coupled_signs(&net, &samples, &seen);
+
     let mut open: Vec<(usize, f64)> = Vec::new();
     for k in 0..n {
-        if net.reversible[k] && null_nonzero[k] {
+        if net.reversible[k] {
             if !seen.positive[k] && !impossible_positive[k] {
                 open.push((k, 1.0));
             }
@@ -296,34 +411,73 @@ pub fn capable_directions(
             }
         }
     }
-    let direction_lps = open.len();
+    result.direction_lps += open.len();
     if !open.is_empty() {
-        lp_solves += direction_checks(&net, &in_reduced, &open, &mut seen)?;
+        result.lp_solves += direction_checks(&net, &open, &mut seen)?;
     }
+    Ok((0..n)
+        .map(|k| {
+            let (positive, negative) = if net.reversible[k] {
+                (seen.positive[k], seen.negative[k])
+            } else {
+                (true, false)
+            };
+            if net.sign[k] > 0.0 {
+                Directions {
+                    forward: positive,
+                    backward: negative,
+                }
+            } else {
+                Directions {
+                    forward: negative,
+                    backward: positive,
+                }
+            }
+        })
+        .collect())
+}
 
-    let mut capable = vec![Directions::NONE; columns.len()];
+/// Reversible columns whose null-space row is a multiple of an irreversible
+/// column's row: u_k = c·u_p with u_p ≥ 0, so u_k has the sign of c only.
+/// Returns (positive impossible, negative impossible) per column.
+fn coupled_signs(net: &Oriented, samples: &[Vec<f64>], seen: &Seen) -> (Vec<bool>, Vec<bool>) {
+    let n = net.len();
+    let mut impossible_positive = vec![false; n];
+    let mut impossible_negative = vec![false; n];
+    let pivot_of = |k: usize| {
+        samples
+            .iter()
+            .map(|w| w[k])
+            .find(|x| x.abs() >= NULLSPACE_NONZERO)
+    };
+    let key_of = |k: usize| -> Option<(Vec<f64>, f64)> {
+        let pivot = pivot_of(k)?;
+        Some((samples.iter().map(|w| w[k] / pivot).collect(), pivot))
+    };
+    let mut irreversible_rows: Vec<(Vec<f64>, f64)> = (0..n)
+        .filter(|&k| !net.reversible[k])
+        .filter_map(key_of)
+        .collect();
+    irreversible_rows.sort_by(|a, b| compare_keys(&a.0, &b.0));
     for k in 0..n {
-        let (positive, negative) = if net.reversible[k] {
-            (
-                null_nonzero[k] && seen.positive[k],
-                null_nonzero[k] && seen.negative[k],
-            )
-        } else {
-            (irreversible_capable[k], false)
+        if !net.reversible[k] || (seen.positive[k] && seen.negative[k]) {
+            continue;
+        }
+        let Some((key, own_pivot)) = key_of(k) else {
+            continue;
         };
-        let (forward, backward) = if net.sign[k] > 0.0 {
-            (positive, negative)
-        } else {
-            (negative, positive)
-        };
-        capable[net.reaction[k]] = Directions { forward, backward };
+        let position = irreversible_rows.partition_point(|row| compare_keys(&row.0, &key).is_lt());
+        if let Some((candidate, pivot)) = irreversible_rows.get(position) {
+            if keys_match(candidate, &key) {
+                if own_pivot / pivot > 0.0 {
+                    impossible_negative[k] = true;
+                } else {
+                    impossible_positive[k] = true;
+                }
+            }
+        }
     }
-    Ok(Capability {
-        capable,
-        lp_solves,
-        reversible_decided_by_null_space,
-        direction_lps,
-    })
+    (impossible_positive, impossible_negative)
 }
 
 fn compare_keys(a: &[f64], b: &[f64]) -> std::cmp::Ordering {
@@ -353,51 +507,37 @@ fn single_irreversible_checks(
         if seen.positive[k] {
             continue;
         }
-        let (mut single, vars) = net.flux_lp(Sense::Maximise, &keep);
-        let t = single.add_variable(1.0, 0.0, FASTCC_EPSILON);
-        let u = vars[k].expect("kept");
-        single.add_row(&[(t, 1.0), (u, -1.0)], Relation::LessOrEqual, 0.0);
-        let solution = single.solve()?;
+        let mut split = vec![false; net.len()];
+        split[k] = true;
+        let single = net.flux_lp(&keep, &split);
+        let solution = single.lp.solve()?;
         solves += 1;
         if solution.objective >= FLUX_NONZERO {
-            for (j, var) in vars.iter().enumerate() {
-                let value = solution.value(var.expect("kept"));
-                seen.record(j, value);
-                interior[j] += value;
+            for (j, value) in interior.iter_mut().enumerate() {
+                let flux = single.flux(&solution, j);
+                seen.record(j, flux);
+                *value += flux;
             }
         }
     }
     Ok(solves)
 }
 
-/// Settles the open (reaction, sign) pairs: max t with t ≤ sign·u_k, gated so
-/// that one LP serves all pairs. Each pair has a gate g ∈ [0, 2] in the row
-/// t − sign·u_k − g ≤ 0; with the gate free the row never binds (t ≤ ε and
-/// |u| ≤ 1), fixing it at 0 makes it the question for that pair.
+/// Settles the open (column, sign) pairs on the unboxed cone: fixing the
+/// flux at ±1 is feasible exactly when that direction is possible (scale any
+/// flux of that sign). One warm-started session serves all pairs; a fix the
+/// solver proves infeasible settles the pair as impossible.
 fn direction_checks(
     net: &Oriented,
-    in_reduced: &[bool],
     open: &[(usize, f64)],
     seen: &mut Seen,
 ) -> Result<usize, LpError> {
-    let (mut lp, vars) = net.flux_lp(Sense::Maximise, in_reduced);
-    let t = lp.add_variable(1.0, 0.0, FASTCC_EPSILON);
-    let gates: Vec<Var> = open
-        .iter()
-        .map(|&(k, sign)| {
-            let gate = lp.add_variable(0.0, 0.0, 2.0 * FLUX_BOX);
-            let u = vars[k].expect("open pairs are in the reduced problem");
-            lp.add_row(
-                &[(t, 1.0), (u, -sign), (gate, -1.0)],
-                Relation::LessOrEqual,
-                0.0,
-            );
-            gate
-        })
-        .collect();
-    let mut session = LpSession::start(&lp)?;
+    let keep = vec![true; net.len()];
+    let split = vec![false; net.len()];
+    let cone = net.flux_lp(&keep, &split);
+    let mut session = LpSession::start(&cone.lp)?;
     let mut solves = 1;
-    for (&(k, sign), &gate) in open.iter().zip(&gates) {
+    for &(k, sign) in open {
         let already = if sign > 0.0 {
             seen.positive[k]
         } else {
@@ -406,17 +546,20 @@ fn direction_checks(
         if already {
             continue;
         }
-        let solution = session.fix(gate, 0.0)?.clone();
+        let var = cone.var(k).expect("columns are not split here");
+        let attempt = session.fix(var, sign).cloned();
         solves += 1;
-        if solution.objective >= FLUX_NONZERO {
-            for (j, var) in vars.iter().enumerate() {
-                if let Some(var) = var {
-                    seen.record(j, solution.value(*var));
+        match attempt {
+            Ok(solution) => {
+                for j in 0..net.len() {
+                    seen.record(j, cone.flux(&solution, j));
                 }
+                session.release(var)?;
+                solves += 1;
             }
+            Err(LpError::Infeasible) => {}
+            Err(other) => return Err(other),
         }
-        session.release(gate)?;
-        solves += 1;
     }
     Ok(solves)
 }

@@ -9,6 +9,7 @@
 //! All tolerances live in [`tolerance`].
 
 mod capable;
+mod compress;
 mod currency;
 mod egc;
 mod elementary;
@@ -179,7 +180,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
     let mut stats = LoopStats {
         reactions_after_pruning: network.allowed.iter().filter(|d| d.any()).count(),
         capability_lp_solves: capability.lp_solves,
-        reversible_blocked_by_null_space: capability.reversible_decided_by_null_space,
+        reversible_blocked_by_null_space: capability.reversible_blocked_by_null_space,
         direction_lps: capability.direction_lps,
         loop_lp_solves: 0,
     };

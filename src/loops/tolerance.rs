@@ -4,21 +4,21 @@
 //! bound of the closed network includes zero, so a reaction can carry flux
 //! within its bounds exactly when it can carry flux in the cone cut out by
 //! the signs the bounds allow (scale any flux down until it fits). The LPs
-//! therefore work in a normalised box |v| ≤ [`FLUX_BOX`], and the thresholds
-//! below are relative to that box.
-
-/// Normalised flux box of the capability LPs: every flux lies in [−1, 1].
-pub const FLUX_BOX: f64 = 1.0;
+//! therefore work in that cone, unbounded; flux thresholds below are
+//! relative to the FASTCC level ε.
 
 /// The ε of the FASTCC-style LP (Vlassis et al., PLoS Comput. Biol. 10 (2014)
-/// e1003424): the LP maximises Σ min(vᵢ, ε). Small against the box so that
-/// fluxes with stoichiometric ratios up to 1000 : 1 can all reach ε at once.
+/// e1003424): the LP maximises Σ min(vᵢ, ε) over the irreversible targets.
+/// In the unbounded cone its size only sets the scale of the solution.
 pub const FASTCC_EPSILON: f64 = 1e-3;
 
-/// A flux (in the normalised box) at least this large counts as carried.
-/// Ten times above the solver's feasibility tolerance (1e-7), so solver
-/// round-off is never read as flux. A reaction whose every flux pattern needs
-/// it below 1e-6 of the largest flux in the box is treated as blocked.
+/// A FASTCC target whose min(v, ε) is within this fraction of ε (or below
+/// [`FLUX_NONZERO`]) is settled by the optimality argument of `capable`.
+pub const FASTCC_SETTLED: f64 = 1e-6;
+
+/// A flux at least this large counts as carried: ten times the solver's
+/// feasibility tolerance (1e-7), so solver round-off is never read as flux,
+/// and 1/1000 of the FASTCC level ε.
 pub const FLUX_NONZERO: f64 = 1e-6;
 
 /// Entries of the eliminated stoichiometric matrix at most this fraction of
