@@ -2,10 +2,17 @@
 //! (2017) e1005494): in the closed network, add one dissipation reaction of
 //! a currency (e.g. ATP + H2O → ADP + Pi + H+) and ask whether it can carry
 //! positive flux. If it can, internal reactions regenerate the currency from
-//! nothing. The LP asked is the L1-minimal flux with the dissipation fixed at
-//! 1: infeasible means no such cycle, an optimum is an example flux with
-//! few reactions.
+//! nothing.
+//!
+//! All dissipation reactions are first added together and the exact
+//! loop-capable analysis run once: a dissipation blocked with all of them
+//! present is blocked alone too (fewer reactions, fewer fluxes). For each
+//! one that can run, the L1-minimal flux with it fixed at 1 and the other
+//! dissipations shut, over the reactions capable in the joint network
+//! (every flux of the single-dissipation network lies there), both decides
+//! it exactly and gives an example with few reactions.
 
+use super::capable::capable_directions;
 use super::currency::{dissipation_tests, CurrencyOptions, DissipationTest};
 use super::elementary::LoopMember;
 use super::network::{ClosedNetwork, Directions};
@@ -39,23 +46,34 @@ pub fn energy_generating_cycles(
     model: &Model,
     options: &CurrencyOptions,
 ) -> Result<EnergyCycleAnalysis, LoopError> {
+    let error = |source| LoopError {
+        model: model.id.clone(),
+        stage: "energy-generating cycles",
+        source,
+    };
     let (tests, not_testable) = dissipation_tests(model, options);
-    let (base, _) = ClosedNetwork::close(model);
+    let (mut network, _) = ClosedNetwork::close(model);
+    let dissipations: Vec<usize> = tests
+        .iter()
+        .map(|test| network.add_reaction(test.column.clone(), Directions::FORWARD))
+        .collect();
+    prune(
+        network.metabolite_count,
+        &network.columns,
+        &mut network.allowed,
+    );
+    let joint = capable_directions(&network.columns, &network.allowed).map_err(error)?;
     let mut results = Vec::with_capacity(tests.len());
-    for test in tests {
-        let mut network = base.clone();
-        let d = network.add_reaction(test.column.clone(), Directions::FORWARD);
-        prune(
-            network.metabolite_count,
-            &network.columns,
-            &mut network.allowed,
-        );
-        let example = if network.allowed[d].forward {
-            minimal_flux_through(&network, d).map_err(|source| LoopError {
-                model: model.id.clone(),
-                stage: "energy-generating cycles",
-                source,
-            })?
+    for (test, &d) in tests.into_iter().zip(&dissipations) {
+        let mut allowed = joint.capable.clone();
+        for &other in &dissipations {
+            if other != d {
+                allowed[other] = Directions::NONE;
+            }
+        }
+        let example = if allowed[d].forward {
+            minimal_flux_through(&network.columns, &allowed, network.metabolite_count, d)
+                .map_err(error)?
         } else {
             None
         };
@@ -84,12 +102,14 @@ pub fn energy_generating_cycles(
 /// min Σ|v| with S·v = 0, v_target = 1, signs as allowed; `None` when
 /// infeasible. Returns (reaction, flux) of the support.
 fn minimal_flux_through(
-    network: &ClosedNetwork,
+    columns: &[Vec<(usize, f64)>],
+    allowed: &[Directions],
+    metabolite_count: usize,
     target: usize,
 ) -> Result<Option<Vec<(usize, f64)>>, LpError> {
     let mut lp = LinearProgram::new(Sense::Minimise);
-    let mut vars: Vec<Option<Var>> = vec![None; network.reaction_count()];
-    for (r, d) in network.allowed.iter().enumerate() {
+    let mut vars: Vec<Option<Var>> = vec![None; columns.len()];
+    for (r, d) in allowed.iter().enumerate() {
         if !d.any() {
             continue;
         }
@@ -110,8 +130,8 @@ fn minimal_flux_through(
         };
         vars[r] = Some(var);
     }
-    let mut rows: Vec<Vec<(Var, f64)>> = vec![Vec::new(); network.metabolite_count];
-    for (r, column) in network.columns.iter().enumerate() {
+    let mut rows: Vec<Vec<(Var, f64)>> = vec![Vec::new(); metabolite_count];
+    for (r, column) in columns.iter().enumerate() {
         if let Some(var) = vars[r] {
             for &(m, c) in column {
                 rows[m].push((var, c));

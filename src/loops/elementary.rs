@@ -8,6 +8,7 @@
 //! S·v = 0 within tolerance, signs allowed by the bounds, and the support's
 //! columns have a one-dimensional null space (elementary).
 
+use super::compress::compress;
 use super::network::Directions;
 use super::nullspace::Elimination;
 use super::tolerance::{FLUX_NONZERO, INTEGER_MULTIPLIER_MAX, INTEGER_SNAP, LOOP_RESIDUAL};
@@ -81,28 +82,34 @@ pub fn find_loops(
     if members.is_empty() {
         return Ok(result);
     }
+    // Chains of the capable network merge exactly (see `compress`); its
+    // elementary modes are those of the original network, and the L1 norm
+    // is kept by weighting each merged flux with Σ|factor| of its members.
+    let metabolite_count = names.metabolites.len();
+    let compressed = compress(metabolite_count, columns, capable);
+    let merged = &compressed.merged;
     let mut lp = LinearProgram::new(Sense::Minimise);
-    let mut vars: Vec<Option<Var>> = vec![None; columns.len()];
-    for &r in &members {
-        let d = capable[r];
+    let mut vars: Vec<Var> = Vec::with_capacity(merged.len());
+    for column in merged {
+        let weight: f64 = column.members.iter().map(|(_, f)| f.abs()).sum();
+        let d = column.allowed;
         let var = match (d.forward, d.backward) {
             (true, true) => {
                 let u = lp.add_variable(0.0, f64::NEG_INFINITY, f64::INFINITY);
-                let a = lp.add_variable(1.0, 0.0, f64::INFINITY);
+                let a = lp.add_variable(weight, 0.0, f64::INFINITY);
                 lp.add_row(&[(a, 1.0), (u, -1.0)], Relation::GreaterOrEqual, 0.0);
                 lp.add_row(&[(a, 1.0), (u, 1.0)], Relation::GreaterOrEqual, 0.0);
                 u
             }
-            (true, false) => lp.add_variable(1.0, 0.0, f64::INFINITY),
-            _ => lp.add_variable(-1.0, f64::NEG_INFINITY, 0.0),
+            (true, false) => lp.add_variable(weight, 0.0, f64::INFINITY),
+            _ => lp.add_variable(-weight, f64::NEG_INFINITY, 0.0),
         };
-        vars[r] = Some(var);
+        vars.push(var);
     }
-    let metabolite_count = names.metabolites.len();
     let mut rows: Vec<Vec<(Var, f64)>> = vec![Vec::new(); metabolite_count];
-    for &r in &members {
-        for &(m, c) in &columns[r] {
-            rows[m].push((vars[r].expect("member"), c));
+    for (column, &var) in merged.iter().zip(&vars) {
+        for &(m, c) in &column.column {
+            rows[m].push((var, c));
         }
     }
     for row in rows.iter().filter(|row| !row.is_empty()) {
@@ -111,20 +118,23 @@ pub fn find_loops(
     let mut session = LpSession::start(&lp)?;
     result.lp_solves += 1;
 
+    // Targets in the order of their first reaction, for reproducible lists.
+    let mut order: Vec<usize> = (0..merged.len()).collect();
+    order.sort_by_key(|&j| merged[j].members.iter().map(|(r, _)| *r).min());
     let mut covered = vec![false; columns.len()];
     let mut keys: BTreeSet<Vec<(usize, bool)>> = BTreeSet::new();
-    for &target in &members {
-        if covered[target] {
+    for target in order {
+        if merged[target].members.iter().all(|(r, _)| covered[*r]) {
             continue;
         }
         if limit.is_some_and(|l| result.loops.len() >= l) {
             result.truncated = true;
             break;
         }
-        let var = vars[target].expect("member");
+        let var = vars[target];
         let mut found = None;
         for sign in [1.0, -1.0] {
-            if !capable[target].allows(sign) {
+            if !merged[target].allowed.allows(sign) {
                 continue;
             }
             let attempt = session.fix(var, sign).map(|s| s.values.clone());
@@ -143,10 +153,16 @@ pub fn find_loops(
         let Some(values) = found else {
             continue;
         };
-        let flux: Vec<(usize, f64)> = members
+        let mut flux: Vec<(usize, f64)> = merged
             .iter()
-            .map(|&r| (r, values[vars[r].expect("member").0]))
+            .zip(&vars)
+            .flat_map(|(column, var)| {
+                let lambda = values[var.0];
+                column.members.iter().map(move |&(r, f)| (r, f * lambda))
+            })
+            .filter(|(_, v)| *v != 0.0)
             .collect();
+        flux.sort_by_key(|(r, _)| *r);
         let Some(cycle) = describe_loop(columns, capable, allowed, names, &flux) else {
             continue;
         };

@@ -139,10 +139,6 @@ impl ClosedNetwork {
         )
     }
 
-    pub fn reaction_count(&self) -> usize {
-        self.columns.len()
-    }
-
     /// Adds a reaction (e.g. a test dissipation reaction); returns its index.
     pub fn add_reaction(&mut self, column: Vec<(usize, f64)>, allowed: Directions) -> usize {
         self.columns.push(column);
