@@ -7,6 +7,7 @@
 
 pub mod analysis;
 pub mod checks;
+pub mod chem;
 pub mod error;
 pub mod loops;
 pub mod lp;

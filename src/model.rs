@@ -168,6 +168,8 @@ pub struct Reaction {
     pub group: Option<String>,
     pub role: Role,
     pub sbo: Option<String>,
+    /// Cross references: namespace (e.g. "kegg.reaction", "ec-code") → ids.
+    pub xrefs: BTreeMap<String, Vec<String>>,
 }
 
 impl Reaction {

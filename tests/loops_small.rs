@@ -73,6 +73,7 @@ fn model(reactions: &[Spec<'_>]) -> Model {
             group: None,
             role: *role,
             sbo: None,
+            xrefs: BTreeMap::new(),
         });
     }
     Model {

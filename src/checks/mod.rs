@@ -1,1 +1,3 @@
 //! Checks: one file per check.
+
+pub mod balance;
