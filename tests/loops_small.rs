@@ -578,3 +578,55 @@ fn currency_override_map() {
     // MAKE consumes X4 as well, which nothing supplies: no cycle.
     assert!(!nadh[0].cycle_exists);
 }
+
+// Recognition by cross reference when ids follow no known scheme: KEGG
+// compound ids of ATP (C00002), ADP (C00008), orthophosphate (C00009), water
+// (C00001) and H+ (C00080), from memory. A free ATP-regenerating reaction is
+// then caught as an energy-generating cycle (Fritzemeier et al. 2017).
+#[test]
+fn currency_recognised_by_kegg_cross_reference() {
+    let mut m = model(&[(
+        "MAKE",
+        &[
+            ("s1_c", -1.0),
+            ("s2_c", -1.0),
+            ("s3_c", -1.0),
+            ("s4_c", 1.0),
+            ("s5_c", 1.0),
+        ],
+        0.0,
+        1000.0,
+        I,
+    )]);
+    for (id, kegg) in [
+        ("s1_c", "C00008"),
+        ("s2_c", "C00009"),
+        ("s3_c", "C00080"),
+        ("s4_c", "C00002"),
+        ("s5_c", "C00001"),
+    ] {
+        let index = m.metabolite_index(id).unwrap();
+        m.metabolites[index]
+            .xrefs
+            .insert("kegg.compound".to_string(), vec![kegg.to_string()]);
+    }
+    let result = energy_generating_cycles(&m, &CurrencyOptions::default()).unwrap();
+    let atp: Vec<_> = result
+        .results
+        .iter()
+        .filter(|r| r.test.currency == "atp")
+        .collect();
+    assert_eq!(atp.len(), 1);
+    assert_eq!(
+        atp[0].test.equation,
+        vec![
+            ("s4_c".to_string(), -1.0),
+            ("s5_c".to_string(), -1.0),
+            ("s1_c".to_string(), 1.0),
+            ("s2_c".to_string(), 1.0),
+            ("s3_c".to_string(), 1.0),
+        ]
+    );
+    assert!(atp[0].cycle_exists);
+    assert_eq!(atp[0].example[0].reaction, "MAKE");
+}
