@@ -630,3 +630,27 @@ fn currency_recognised_by_kegg_cross_reference() {
     assert!(atp[0].cycle_exists);
     assert_eq!(atp[0].example[0].reaction, "MAKE");
 }
+
+// The results are plain serialisable data (report.json and the site read
+// them): ids, directions and coefficients survive a JSON round of serde.
+#[test]
+fn results_serialise_to_json() {
+    let m = model(&[
+        ("R1", &[("a_c", -1.0), ("b_c", 2.0)], 0.0, 1000.0, I),
+        ("R2", &[("b_c", -2.0), ("a_c", 1.0)], -1000.0, 1000.0, I),
+    ]);
+    let a = analyse_loops(&m, &LoopOptions::default()).unwrap();
+    let json = serde_json::to_value(&a).unwrap();
+    assert_eq!(json["loop_capable"][0]["reaction"], "R1");
+    // R1 makes 2 B from A, R2 (reversible) can only close it forward.
+    assert_eq!(json["loop_capable"][1]["forward"], true);
+    assert_eq!(json["loop_capable"][1]["backward"], false);
+    let members = &json["loops"][0]["members"];
+    assert_eq!(members[0]["coefficient"], 1.0);
+    assert_eq!(members[1]["coefficient"], 1.0);
+    assert_eq!(json["loops"][0]["metabolites"][1], "b_c");
+    let cycles = energy_generating_cycles(&m, &CurrencyOptions::default()).unwrap();
+    assert!(serde_json::to_string(&cycles)
+        .unwrap()
+        .contains("not_testable"));
+}
