@@ -115,76 +115,125 @@ pub fn find_loops(
     for row in rows.iter().filter(|row| !row.is_empty()) {
         lp.add_row(row, Relation::Equal, 0.0);
     }
-    let mut session = LpSession::start(&lp)?;
-    result.lp_solves += 1;
+    // A fixed number of workers, each with its own warm session. Targets go
+    // out in batches of that size, in order, and results are taken in order,
+    // so the list does not depend on timing or on the machine.
+    let mut sessions: Vec<LpSession> = (0..LOOP_WORKERS)
+        .map(|_| LpSession::start(&lp))
+        .collect::<Result<_, _>>()?;
+    result.lp_solves += LOOP_WORKERS;
 
     // Targets in the order of their first reaction, for reproducible lists.
     let mut order: Vec<usize> = (0..merged.len()).collect();
     order.sort_by_key(|&j| merged[j].members.iter().map(|(r, _)| *r).min());
+    let mut order = order.into_iter().peekable();
     let mut covered = vec![false; columns.len()];
     let mut keys: BTreeSet<Vec<(usize, bool)>> = BTreeSet::new();
-    for target in order {
-        if merged[target].members.iter().all(|(r, _)| covered[*r]) {
-            continue;
+    loop {
+        let mut batch = Vec::with_capacity(LOOP_WORKERS);
+        while batch.len() < LOOP_WORKERS {
+            let Some(target) = order.next() else { break };
+            if !merged[target].members.iter().all(|(r, _)| covered[*r]) {
+                batch.push(target);
+            }
+        }
+        if batch.is_empty() {
+            break;
         }
         if limit.is_some_and(|l| result.loops.len() >= l) {
             result.truncated = true;
             break;
         }
-        let var = vars[target];
-        let mut found = None;
-        for sign in [1.0, -1.0] {
-            if !merged[target].allowed.allows(sign) {
+        let outcomes: Vec<Result<TargetOutcome, LpError>> = std::thread::scope(|scope| {
+            let handles: Vec<_> = batch
+                .iter()
+                .zip(sessions.iter_mut())
+                .map(|(&target, session)| {
+                    let var = vars[target];
+                    let allowed = merged[target].allowed;
+                    scope.spawn(move || loop_through(session, var, allowed))
+                })
+                .collect();
+            handles
+                .into_iter()
+                .map(|h| h.join().expect("loop worker panicked"))
+                .collect()
+        });
+        for outcome in outcomes {
+            let (found, solves) = outcome?;
+            result.lp_solves += solves;
+            let Some(values) = found else {
+                continue;
+            };
+            if limit.is_some_and(|l| result.loops.len() >= l) {
+                result.truncated = true;
+                break;
+            }
+            let mut flux: Vec<(usize, f64)> = merged
+                .iter()
+                .zip(&vars)
+                .flat_map(|(column, var)| {
+                    let lambda = values[var.0];
+                    column.members.iter().map(move |&(r, f)| (r, f * lambda))
+                })
+                .filter(|(_, v)| *v != 0.0)
+                .collect();
+            flux.sort_by_key(|(r, _)| *r);
+            let Some(cycle) = describe_loop(columns, capable, allowed, names, &flux) else {
+                continue;
+            };
+            for m in &cycle.members {
+                covered[m.index] = true;
+            }
+            let key: Vec<(usize, bool)> = cycle
+                .members
+                .iter()
+                .map(|m| (m.index, m.coefficient > 0.0))
+                .collect();
+            let reversed: Vec<(usize, bool)> = key.iter().map(|&(r, s)| (r, !s)).collect();
+            if keys.contains(&key) || keys.contains(&reversed) {
                 continue;
             }
-            let attempt = session.fix(var, sign).map(|s| s.values.clone());
-            result.lp_solves += 1;
-            session.release(var)?;
-            result.lp_solves += 1;
-            match attempt {
-                Ok(values) => {
-                    found = Some(values);
-                    break;
-                }
-                Err(LpError::Infeasible) => continue,
-                Err(other) => return Err(other),
-            }
+            keys.insert(key);
+            let mut cycle = cycle;
+            cycle.id = format!("loop-{}", result.loops.len() + 1);
+            result.loops.push(cycle);
         }
-        let Some(values) = found else {
-            continue;
-        };
-        let mut flux: Vec<(usize, f64)> = merged
-            .iter()
-            .zip(&vars)
-            .flat_map(|(column, var)| {
-                let lambda = values[var.0];
-                column.members.iter().map(move |&(r, f)| (r, f * lambda))
-            })
-            .filter(|(_, v)| *v != 0.0)
-            .collect();
-        flux.sort_by_key(|(r, _)| *r);
-        let Some(cycle) = describe_loop(columns, capable, allowed, names, &flux) else {
-            continue;
-        };
-        for m in &cycle.members {
-            covered[m.index] = true;
-        }
-        let key: Vec<(usize, bool)> = cycle
-            .members
-            .iter()
-            .map(|m| (m.index, m.coefficient > 0.0))
-            .collect();
-        let reversed: Vec<(usize, bool)> = key.iter().map(|&(r, s)| (r, !s)).collect();
-        if keys.contains(&key) || keys.contains(&reversed) {
-            continue;
-        }
-        keys.insert(key);
-        let mut cycle = cycle;
-        cycle.id = format!("loop-{}", result.loops.len() + 1);
-        result.loops.push(cycle);
     }
     result.uncovered = members.into_iter().filter(|&r| !covered[r]).collect();
     Ok(result)
+}
+
+/// Number of loop workers (threads with their own LP session). Fixed, not
+/// taken from the machine, so the loop list is the same everywhere.
+const LOOP_WORKERS: usize = 2;
+
+/// LP values of a loop (none when the target has no loop) and LP solves.
+type TargetOutcome = (Option<Vec<f64>>, usize);
+
+/// One target: the L1-minimal loop with the merged flux fixed at +1, or
+/// else at −1. Returns the LP values (or none: no loop either way) and the
+/// number of LP solves.
+fn loop_through(
+    session: &mut LpSession,
+    var: Var,
+    allowed: Directions,
+) -> Result<TargetOutcome, LpError> {
+    let mut solves = 0;
+    for sign in [1.0, -1.0] {
+        if !allowed.allows(sign) {
+            continue;
+        }
+        let attempt = session.fix(var, sign).map(|s| s.values.clone());
+        session.release(var)?;
+        solves += 2;
+        match attempt {
+            Ok(values) => return Ok((Some(values), solves)),
+            Err(LpError::Infeasible) => continue,
+            Err(other) => return Err(other),
+        }
+    }
+    Ok((None, solves))
 }
 
 /// Turns an LP flux into a normalised, checked loop.

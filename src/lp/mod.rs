@@ -161,6 +161,13 @@ mod tests {
         assert_eq!(lp.solve(), Err(LpError::Unbounded));
     }
 
+    // Loop enumeration runs sessions on worker threads.
+    #[test]
+    fn session_is_send() {
+        fn assert_send<T: Send>() {}
+        assert_send::<LpSession>();
+    }
+
     #[test]
     fn session_fixes_and_releases_a_variable_with_warm_restarts() {
         // min x + y, x - y = 0, 0 ≤ x, y ≤ 5: optimum 0; with x fixed at 2 it is 4.
