@@ -1,0 +1,162 @@
+//! Loop-analysis speed: for each model, the wall time (best and median of
+//! several runs) of
+//! - the loop-capable set alone (closing, pruning, capability LPs),
+//! - the full analysis with elementary loops covering that set,
+//! - the energy-generating-cycle tests,
+//!
+//! with the sizes they produced. Import time is not counted.
+//!
+//! Run (release profile):
+//!     cargo bench --bench loops
+//!     cargo bench --bench loops -- path/to/model.xml.gz ...
+//! Without paths it uses every `*.xml` / `*.xml.gz` in `$GIBBSITE_MODELS_DIR`
+//! or else `../shared/models`. `--runs N` sets the number of runs of the
+//! loop-capable set (default 5; the slower stages run `min(N, 2)` times).
+
+use gibbsite::loops::{analyse_loops, energy_generating_cycles, CurrencyOptions, LoopOptions};
+use gibbsite::model::Model;
+use gibbsite::project::sbml::read_sbml;
+use std::path::{Path, PathBuf};
+use std::time::{Duration, Instant};
+
+fn main() {
+    // `cargo bench` passes `--bench`; ignore flags other than our own.
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    let runs = args
+        .iter()
+        .position(|a| a == "--runs")
+        .and_then(|at| args.get(at + 1))
+        .and_then(|n| n.parse::<usize>().ok())
+        .unwrap_or(5)
+        .max(1);
+    let mut paths: Vec<PathBuf> = args
+        .iter()
+        .filter(|a| a.ends_with(".xml") || a.ends_with(".xml.gz"))
+        .map(PathBuf::from)
+        .collect();
+    if paths.is_empty() {
+        let dir = std::env::var_os("GIBBSITE_MODELS_DIR")
+            .map(PathBuf::from)
+            .unwrap_or_else(|| Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models"));
+        let Ok(entries) = std::fs::read_dir(&dir) else {
+            println!(
+                "skipped: {} not found (set GIBBSITE_MODELS_DIR or pass model paths)",
+                dir.display()
+            );
+            return;
+        };
+        paths = entries
+            .filter_map(|e| e.ok().map(|e| e.path()))
+            .filter(|p| {
+                let name = p.to_string_lossy();
+                name.ends_with(".xml") || name.ends_with(".xml.gz")
+            })
+            .collect();
+        // Smallest first, so the quick figures show before the slow ones.
+        paths.sort_by_key(|p| std::fs::metadata(p).map(|m| m.len()).unwrap_or(0));
+    }
+    println!(
+        "{:<16} {:>9} {:>8} {:>8} | {:>9} {:>9} {:>6} | {:>9} {:>7} | {:>9} {:>6} {:>4}",
+        "model",
+        "reactions",
+        "pruned",
+        "capable",
+        "set best",
+        "set med",
+        "LPs",
+        "loops",
+        "count",
+        "cycles",
+        "tests",
+        "EGC"
+    );
+    for path in paths {
+        let model = match read_sbml(&path) {
+            Ok(model) => model,
+            Err(error) => {
+                println!("{}: not imported:\n{error}", path.display());
+                continue;
+            }
+        };
+        bench_model(&model, runs);
+    }
+}
+
+fn bench_model(model: &Model, runs: usize) {
+    let set_only = LoopOptions {
+        find_loops: false,
+        max_loops: None,
+    };
+    let (set_times, set) = timed(runs, || analyse_loops(model, &set_only));
+    let set = match set {
+        Ok(set) => set,
+        Err(error) => {
+            println!("{}: {error}", model.id);
+            return;
+        }
+    };
+    let all_loops = LoopOptions {
+        find_loops: true,
+        max_loops: None,
+    };
+    let (loop_times, full) = timed(runs.min(2), || analyse_loops(model, &all_loops));
+    let (cycle_times, cycles) = timed(runs.min(2), || {
+        energy_generating_cycles(model, &CurrencyOptions::default())
+    });
+    let loops = full
+        .map(|a| a.loops.len().to_string())
+        .unwrap_or_else(|e| e.to_string());
+    let (tests, found) = cycles
+        .map(|c| {
+            let found = c.results.iter().filter(|r| r.cycle_exists).count();
+            (c.results.len().to_string(), found.to_string())
+        })
+        .unwrap_or_else(|e| (e.to_string(), String::new()));
+    println!(
+        "{:<16} {:>9} {:>8} {:>8} | {:>9} {:>9} {:>6} | {:>9} {:>7} | {:>9} {:>6} {:>4}",
+        model.id,
+        model.reactions.len(),
+        set.pruning.removed_reactions,
+        set.loop_capable.len(),
+        show(best(&set_times)),
+        show(median(&set_times)),
+        set.stats.capability_lp_solves,
+        show(best(&loop_times)),
+        loops,
+        show(best(&cycle_times)),
+        tests,
+        found
+    );
+}
+
+/// Runs `work` `runs` times; returns every wall time and the last result.
+fn timed<T>(runs: usize, mut work: impl FnMut() -> T) -> (Vec<Duration>, T) {
+    let mut times = Vec::with_capacity(runs);
+    let mut last = None;
+    for _ in 0..runs {
+        let start = Instant::now();
+        let result = std::hint::black_box(work());
+        times.push(start.elapsed());
+        last = Some(result);
+    }
+    (times, last.expect("at least one run"))
+}
+
+fn best(times: &[Duration]) -> Duration {
+    times.iter().copied().min().unwrap_or_default()
+}
+
+fn median(times: &[Duration]) -> Duration {
+    let mut sorted = times.to_vec();
+    sorted.sort();
+    sorted[sorted.len() / 2]
+}
+
+fn show(d: Duration) -> String {
+    let ms = d.as_secs_f64() * 1000.0;
+    if ms < 1000.0 {
+        format!("{ms:.1} ms")
+    } else {
+        format!("{:.2} s", ms / 1000.0)
+    }
+}

@@ -1,0 +1,340 @@
+//! Elementary loops through the loop-capable reactions.
+//!
+//! For a target reaction and direction, the LP
+//!   min Σ |v_r|  s.t.  S·v = 0,  v_target = ±1,  signs as capable
+//! has an optimal vertex that is an elementary flux mode of the closed
+//! network (a vertex of the cone cut by the plane v_target = ±1 within one
+//! orthant); the simplex returns such a vertex. Each loop is checked back:
+//! S·v = 0 within tolerance, signs allowed by the bounds, and the support's
+//! columns have a one-dimensional null space (elementary).
+
+use super::compress::compress;
+use super::network::Directions;
+use super::nullspace::Elimination;
+use super::tolerance::{FLUX_NONZERO, INTEGER_MULTIPLIER_MAX, INTEGER_SNAP, LOOP_RESIDUAL};
+use crate::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
+use serde::Serialize;
+use std::collections::BTreeSet;
+
+/// One reaction of a loop.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct LoopMember {
+    pub reaction: String,
+    /// Index into `Model::reactions`.
+    pub index: usize,
+    /// Relative flux: positive = forward as written, negative = backward.
+    pub coefficient: f64,
+}
+
+/// An elementary internal loop.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ElementaryLoop {
+    /// `loop-1`, `loop-2`, … in the order found (deterministic).
+    pub id: String,
+    /// Sorted by reaction index.
+    pub members: Vec<LoopMember>,
+    /// Metabolites the loop's reactions touch (ids, sorted): its cycle map.
+    pub metabolites: Vec<String>,
+    /// Coefficients were snapped to integers (otherwise smallest |coef| = 1).
+    pub integer_coefficients: bool,
+    /// Every member may also run the other way, so the loop runs backwards too.
+    pub reversible: bool,
+    /// Largest |S·v| over the loop's metabolites, relative to the largest term.
+    pub residual: f64,
+    /// Residual within tolerance and every sign allowed by the bounds.
+    pub verified: bool,
+    /// The support's columns have a one-dimensional null space.
+    pub elementary: bool,
+}
+
+/// What loop enumeration produced.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LoopSet {
+    pub loops: Vec<ElementaryLoop>,
+    /// Capable reactions that appear in no listed loop.
+    pub uncovered: Vec<usize>,
+    pub truncated: bool,
+    pub lp_solves: usize,
+}
+
+/// Names needed to describe loops.
+pub struct Names<'a> {
+    pub reactions: &'a [String],
+    pub metabolites: &'a [String],
+}
+
+/// Finds elementary loops until every capable reaction is covered or
+/// `limit` loops are listed.
+pub fn find_loops(
+    columns: &[Vec<(usize, f64)>],
+    capable: &[Directions],
+    allowed: &[Directions],
+    names: &Names<'_>,
+    limit: Option<usize>,
+) -> Result<LoopSet, LpError> {
+    let members: Vec<usize> = (0..columns.len()).filter(|&r| capable[r].any()).collect();
+    let mut result = LoopSet {
+        loops: Vec::new(),
+        uncovered: Vec::new(),
+        truncated: false,
+        lp_solves: 0,
+    };
+    if members.is_empty() {
+        return Ok(result);
+    }
+    // Chains of the capable network merge exactly (see `compress`); its
+    // elementary modes are those of the original network, and the L1 norm
+    // is kept by weighting each merged flux with Σ|factor| of its members.
+    let metabolite_count = names.metabolites.len();
+    let compressed = compress(metabolite_count, columns, capable);
+    let merged = &compressed.merged;
+    let mut lp = LinearProgram::new(Sense::Minimise);
+    let mut vars: Vec<Var> = Vec::with_capacity(merged.len());
+    for column in merged {
+        let weight: f64 = column.members.iter().map(|(_, f)| f.abs()).sum();
+        let d = column.allowed;
+        let var = match (d.forward, d.backward) {
+            (true, true) => {
+                let u = lp.add_variable(0.0, f64::NEG_INFINITY, f64::INFINITY);
+                let a = lp.add_variable(weight, 0.0, f64::INFINITY);
+                lp.add_row(&[(a, 1.0), (u, -1.0)], Relation::GreaterOrEqual, 0.0);
+                lp.add_row(&[(a, 1.0), (u, 1.0)], Relation::GreaterOrEqual, 0.0);
+                u
+            }
+            (true, false) => lp.add_variable(weight, 0.0, f64::INFINITY),
+            _ => lp.add_variable(-weight, f64::NEG_INFINITY, 0.0),
+        };
+        vars.push(var);
+    }
+    let mut rows: Vec<Vec<(Var, f64)>> = vec![Vec::new(); metabolite_count];
+    for (column, &var) in merged.iter().zip(&vars) {
+        for &(m, c) in &column.column {
+            rows[m].push((var, c));
+        }
+    }
+    for row in rows.iter().filter(|row| !row.is_empty()) {
+        lp.add_row(row, Relation::Equal, 0.0);
+    }
+    // A fixed number of workers, each with its own warm session. Targets go
+    // out in batches of that size, in order, and results are taken in order,
+    // so the list does not depend on timing or on the machine.
+    let mut sessions: Vec<LpSession> = (0..LOOP_WORKERS)
+        .map(|_| LpSession::start(&lp))
+        .collect::<Result<_, _>>()?;
+    result.lp_solves += LOOP_WORKERS;
+
+    // Targets in the order of their first reaction, for reproducible lists.
+    let mut order: Vec<usize> = (0..merged.len()).collect();
+    order.sort_by_key(|&j| merged[j].members.iter().map(|(r, _)| *r).min());
+    let mut order = order.into_iter().peekable();
+    let mut covered = vec![false; columns.len()];
+    let mut keys: BTreeSet<Vec<(usize, bool)>> = BTreeSet::new();
+    loop {
+        let mut batch = Vec::with_capacity(LOOP_WORKERS);
+        while batch.len() < LOOP_WORKERS {
+            let Some(target) = order.next() else { break };
+            if !merged[target].members.iter().all(|(r, _)| covered[*r]) {
+                batch.push(target);
+            }
+        }
+        if batch.is_empty() {
+            break;
+        }
+        if limit.is_some_and(|l| result.loops.len() >= l) {
+            result.truncated = true;
+            break;
+        }
+        let outcomes: Vec<Result<TargetOutcome, LpError>> = std::thread::scope(|scope| {
+            let handles: Vec<_> = batch
+                .iter()
+                .zip(sessions.iter_mut())
+                .map(|(&target, session)| {
+                    let var = vars[target];
+                    let allowed = merged[target].allowed;
+                    scope.spawn(move || loop_through(session, var, allowed))
+                })
+                .collect();
+            handles
+                .into_iter()
+                .map(|h| h.join().expect("loop worker panicked"))
+                .collect()
+        });
+        for outcome in outcomes {
+            let (found, solves) = outcome?;
+            result.lp_solves += solves;
+            let Some(values) = found else {
+                continue;
+            };
+            if limit.is_some_and(|l| result.loops.len() >= l) {
+                result.truncated = true;
+                break;
+            }
+            let mut flux: Vec<(usize, f64)> = merged
+                .iter()
+                .zip(&vars)
+                .flat_map(|(column, var)| {
+                    let lambda = values[var.0];
+                    column.members.iter().map(move |&(r, f)| (r, f * lambda))
+                })
+                .filter(|(_, v)| *v != 0.0)
+                .collect();
+            flux.sort_by_key(|(r, _)| *r);
+            let Some(cycle) = describe_loop(columns, capable, allowed, names, &flux) else {
+                continue;
+            };
+            for m in &cycle.members {
+                covered[m.index] = true;
+            }
+            let key: Vec<(usize, bool)> = cycle
+                .members
+                .iter()
+                .map(|m| (m.index, m.coefficient > 0.0))
+                .collect();
+            let reversed: Vec<(usize, bool)> = key.iter().map(|&(r, s)| (r, !s)).collect();
+            if keys.contains(&key) || keys.contains(&reversed) {
+                continue;
+            }
+            keys.insert(key);
+            let mut cycle = cycle;
+            cycle.id = format!("loop-{}", result.loops.len() + 1);
+            result.loops.push(cycle);
+        }
+    }
+    result.uncovered = members.into_iter().filter(|&r| !covered[r]).collect();
+    Ok(result)
+}
+
+/// Number of loop workers (threads with their own LP session). Fixed, not
+/// taken from the machine, so the loop list is the same everywhere.
+const LOOP_WORKERS: usize = 2;
+
+/// LP values of a loop (none when the target has no loop) and LP solves.
+type TargetOutcome = (Option<Vec<f64>>, usize);
+
+/// One target: the L1-minimal loop with the merged flux fixed at +1, or
+/// else at −1. Returns the LP values (or none: no loop either way) and the
+/// number of LP solves.
+fn loop_through(
+    session: &mut LpSession,
+    var: Var,
+    allowed: Directions,
+) -> Result<TargetOutcome, LpError> {
+    let mut solves = 0;
+    for sign in [1.0, -1.0] {
+        if !allowed.allows(sign) {
+            continue;
+        }
+        let attempt = session.fix(var, sign).map(|s| s.values.clone());
+        session.release(var)?;
+        solves += 2;
+        match attempt {
+            Ok(values) => return Ok((Some(values), solves)),
+            Err(LpError::Infeasible) => continue,
+            Err(other) => return Err(other),
+        }
+    }
+    Ok((None, solves))
+}
+
+/// Turns an LP flux into a normalised, checked loop.
+fn describe_loop(
+    columns: &[Vec<(usize, f64)>],
+    capable: &[Directions],
+    allowed: &[Directions],
+    names: &Names<'_>,
+    flux: &[(usize, f64)],
+) -> Option<ElementaryLoop> {
+    let largest = flux.iter().map(|(_, v)| v.abs()).fold(0.0, f64::max);
+    if largest == 0.0 {
+        return None;
+    }
+    let support: Vec<(usize, f64)> = flux
+        .iter()
+        .copied()
+        .filter(|(_, v)| v.abs() >= FLUX_NONZERO * largest)
+        .collect();
+    let smallest = support
+        .iter()
+        .map(|(_, v)| v.abs())
+        .fold(f64::INFINITY, f64::min);
+    let scaled: Vec<f64> = support.iter().map(|(_, v)| v / smallest).collect();
+    let (coefficients, integer_coefficients) = snap_to_integers(&scaled);
+    let members: Vec<LoopMember> = support
+        .iter()
+        .zip(&coefficients)
+        .map(|(&(r, _), &coefficient)| LoopMember {
+            reaction: names.reactions[r].clone(),
+            index: r,
+            coefficient,
+        })
+        .collect();
+
+    let mut balance: std::collections::BTreeMap<usize, (f64, f64)> = Default::default();
+    for m in &members {
+        for &(metabolite, c) in &columns[m.index] {
+            let entry = balance.entry(metabolite).or_insert((0.0, 0.0));
+            entry.0 += c * m.coefficient;
+            entry.1 = entry.1.max((c * m.coefficient).abs());
+        }
+    }
+    let residual = balance
+        .values()
+        .map(|(sum, scale)| if *scale > 0.0 { sum.abs() / scale } else { 0.0 })
+        .fold(0.0, f64::max);
+    let signs_allowed = members
+        .iter()
+        .all(|m| allowed[m.index].allows(m.coefficient));
+    let support_columns: Vec<Vec<(usize, f64)>> =
+        members.iter().map(|m| columns[m.index].clone()).collect();
+    let elementary = Elimination::new(names.metabolites.len(), &support_columns).nullity() == 1;
+    let reversible = members
+        .iter()
+        .all(|m| capable[m.index].allows(-m.coefficient));
+    Some(ElementaryLoop {
+        id: String::new(),
+        metabolites: balance
+            .keys()
+            .map(|&m| names.metabolites[m].clone())
+            .collect(),
+        members,
+        integer_coefficients,
+        reversible,
+        residual,
+        verified: residual <= LOOP_RESIDUAL && signs_allowed,
+        elementary,
+    })
+}
+
+/// Scales coefficients (smallest |c| = 1 already) by the smallest multiplier
+/// that makes all of them integers within tolerance.
+fn snap_to_integers(scaled: &[f64]) -> (Vec<f64>, bool) {
+    for multiplier in 1..=INTEGER_MULTIPLIER_MAX {
+        let m = f64::from(multiplier);
+        let close = scaled.iter().all(|c| {
+            let x = c * m;
+            (x - x.round()).abs() <= INTEGER_SNAP * x.abs().max(1.0)
+        });
+        if close {
+            return (scaled.iter().map(|c| (c * m).round()).collect(), true);
+        }
+    }
+    (scaled.to_vec(), false)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Arithmetic (common practice): 1, 1.5, 0.5·… → smallest multiplier 2.
+    #[test]
+    fn snaps_ratios_to_small_integers() {
+        assert_eq!(
+            snap_to_integers(&[1.0, 1.5, -2.0]),
+            (vec![2.0, 3.0, -4.0], true)
+        );
+        assert_eq!(snap_to_integers(&[1.0, 1.0 + 1e-9]), (vec![1.0, 1.0], true));
+        let (c, integer) = snap_to_integers(&[1.0, std::f64::consts::PI]);
+        assert!(!integer);
+        assert_eq!(c[1], std::f64::consts::PI);
+    }
+}

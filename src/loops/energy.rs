@@ -1,0 +1,260 @@
+//! Loops meet thermodynamics.
+//!
+//! Around a loop the net reaction is nothing, so Σ coef·ΔrG'° must vanish
+//! (Hess's law, common practice); a sum beyond k·σ means the ΔrG'° data of
+//! the loop are mutually inconsistent. Whatever the data, a loop cannot run:
+//! the member whose loop direction is least plausible (largest ΔG'_min in
+//! that direction) is the natural one to constrain, and re-running the
+//! loop-capable analysis with that direction forbidden tells whether doing
+//! so stops the loop's reactions from looping.
+
+use super::capable::capable_directions;
+use super::network::{ClosedNetwork, Directions};
+use super::prune::prune;
+use super::tolerance::ENERGY_SUM_ROUNDOFF;
+use super::{LoopAnalysis, LoopError};
+use crate::model::Model;
+use serde::Serialize;
+
+/// ΔrG'° of a reaction as written, with its standard uncertainty (kJ/mol).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct StandardDeltaG {
+    pub value_kj: f64,
+    pub sigma_kj: f64,
+}
+
+/// Range of ΔrG' of a reaction as written over the allowed concentrations
+/// (kJ/mol), uncertainty allowance included as the caller sees fit.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct DeltaGRange {
+    pub min_kj: f64,
+    pub max_kj: f64,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct LoopEnergyOptions {
+    /// Confidence multiplier k: a sum beyond k·σ is inconsistent.
+    pub confidence: f64,
+    /// Re-check at most this many loops with their suggested constraint
+    /// (each re-check reruns the loop-capable analysis); `None` = all.
+    pub recheck_limit: Option<usize>,
+}
+
+impl Default for LoopEnergyOptions {
+    fn default() -> LoopEnergyOptions {
+        LoopEnergyOptions {
+            confidence: 1.96,
+            recheck_limit: Some(200),
+        }
+    }
+}
+
+/// Where the ΔG'_min used to pick the member to constrain came from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum DeltaGBasis {
+    /// The given ΔG'_min/ΔG'_max range.
+    Range,
+    /// ΔrG'° ∓ k·σ (no range given for that reaction).
+    Standard,
+}
+
+/// The member to constrain and what constraining it does.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ConstraintSuggestion {
+    pub reaction: String,
+    pub index: usize,
+    /// Direction the loop uses and the constraint forbids: "forward" or "backward".
+    pub forbid: &'static str,
+    /// Smallest ΔG' of the reaction in the loop's direction (kJ/mol).
+    pub dg_min_in_loop_direction_kj: f64,
+    pub basis: DeltaGBasis,
+    /// `None` when the re-check limit was reached.
+    pub rechecked: Option<Recheck>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Recheck {
+    /// Loop members still loop-capable in their loop direction with the
+    /// constraint in place.
+    pub still_looping: Vec<String>,
+    /// No member of the loop can still loop in its loop direction.
+    pub breaks_loop: bool,
+}
+
+/// Thermodynamic view of one loop.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct LoopEnergy {
+    pub loop_id: String,
+    /// Σ coef·ΔrG'° over members with data (kJ/mol).
+    pub sum_kj: f64,
+    /// √Σ (coef·σ)², members taken as independent (kJ/mol).
+    pub sigma_kj: f64,
+    /// Members with no ΔrG'°; the sum is partial when nonempty.
+    pub members_without_data: Vec<String>,
+    /// Complete data and |sum| > k·σ.
+    pub inconsistent: bool,
+    /// |sum| / σ when complete and σ > 0.
+    pub deviation_sigmas: Option<f64>,
+    pub constrain: Option<ConstraintSuggestion>,
+    /// For a reversible loop, the same for the loop run backwards (every
+    /// coefficient negated), which the loop list does not repeat.
+    pub constrain_reversed: Option<ConstraintSuggestion>,
+}
+
+/// Confronts every loop of `analysis` with ΔrG'° (`standard`) and ΔG'
+/// ranges (`ranges`), both indexed like `model.reactions` (missing entries
+/// or a shorter slice mean no data).
+pub fn assess_loop_energies(
+    model: &Model,
+    analysis: &LoopAnalysis,
+    standard: &[Option<StandardDeltaG>],
+    ranges: &[Option<DeltaGRange>],
+    options: &LoopEnergyOptions,
+) -> Result<Vec<LoopEnergy>, LoopError> {
+    let k = options.confidence;
+    let capable = analysis.capable_directions(model.reactions.len());
+    let (network, _) = ClosedNetwork::close(model);
+    let mut rechecks = 0usize;
+    let mut out = Vec::with_capacity(analysis.loops.len());
+    for cycle in &analysis.loops {
+        let mut sum = 0.0;
+        let mut variance = 0.0;
+        let mut without = Vec::new();
+        for member in &cycle.members {
+            match standard.get(member.index).copied().flatten() {
+                Some(d) => {
+                    sum += member.coefficient * d.value_kj;
+                    variance += (member.coefficient * d.sigma_kj).powi(2);
+                }
+                None => without.push(member.reaction.clone()),
+            }
+        }
+        let sigma = variance.sqrt();
+        let complete = without.is_empty();
+        let inconsistent = complete && sum.abs() > k * sigma + ENERGY_SUM_ROUNDOFF;
+        let deviation_sigmas = (complete && sigma > 0.0).then(|| sum.abs() / sigma);
+        let orientations: &[f64] = if cycle.reversible {
+            &[1.0, -1.0]
+        } else {
+            &[1.0]
+        };
+        let mut suggestions = Vec::new();
+        for &orientation in orientations {
+            let Some((dg_min, index, c, basis)) =
+                least_plausible(cycle, orientation, standard, ranges, k)
+            else {
+                suggestions.push(None);
+                continue;
+            };
+            let within_limit = options.recheck_limit.is_none_or(|l| rechecks < l);
+            let rechecked = if within_limit {
+                rechecks += 1;
+                Some(recheck(
+                    model,
+                    &network,
+                    &capable,
+                    cycle,
+                    orientation,
+                    index,
+                    c,
+                )?)
+            } else {
+                None
+            };
+            suggestions.push(Some(ConstraintSuggestion {
+                reaction: model.reactions[index].id.clone(),
+                index,
+                forbid: if c > 0.0 { "forward" } else { "backward" },
+                dg_min_in_loop_direction_kj: dg_min,
+                basis,
+                rechecked,
+            }));
+        }
+        let mut suggestions = suggestions.into_iter();
+        let constrain = suggestions.next().flatten();
+        let constrain_reversed = suggestions.next().flatten();
+        out.push(LoopEnergy {
+            loop_id: cycle.id.clone(),
+            sum_kj: sum,
+            sigma_kj: sigma,
+            members_without_data: without,
+            inconsistent,
+            deviation_sigmas,
+            constrain,
+            constrain_reversed,
+        });
+    }
+    Ok(out)
+}
+
+/// The member with the largest ΔG'_min in its loop direction (coefficients
+/// multiplied by `orientation`): (ΔG'_min, index, signed coefficient, basis).
+fn least_plausible(
+    cycle: &super::ElementaryLoop,
+    orientation: f64,
+    standard: &[Option<StandardDeltaG>],
+    ranges: &[Option<DeltaGRange>],
+    k: f64,
+) -> Option<(f64, usize, f64, DeltaGBasis)> {
+    let mut worst: Option<(f64, usize, f64, DeltaGBasis)> = None;
+    for member in &cycle.members {
+        let c = orientation * member.coefficient;
+        let range = ranges.get(member.index).copied().flatten();
+        let data = standard.get(member.index).copied().flatten();
+        let candidate = match (range, data) {
+            (Some(r), _) => Some((
+                if c > 0.0 { r.min_kj } else { -r.max_kj },
+                DeltaGBasis::Range,
+            )),
+            (None, Some(d)) => Some((
+                c.signum() * d.value_kj - k * d.sigma_kj,
+                DeltaGBasis::Standard,
+            )),
+            (None, None) => None,
+        };
+        if let Some((dg_min, basis)) = candidate {
+            if worst.is_none_or(|(best, ..)| dg_min > best) {
+                worst = Some((dg_min, member.index, c, basis));
+            }
+        }
+    }
+    worst
+}
+
+/// Loop-capable analysis restricted to the loop-capable reactions (every
+/// other reaction carries no flux in the closed network anyway, and
+/// forbidding a direction can only shrink the set) with one direction of
+/// `index` forbidden.
+fn recheck(
+    model: &Model,
+    network: &ClosedNetwork,
+    capable: &[Directions],
+    cycle: &super::ElementaryLoop,
+    orientation: f64,
+    index: usize,
+    coefficient: f64,
+) -> Result<Recheck, LoopError> {
+    let mut allowed = capable.to_vec();
+    if coefficient > 0.0 {
+        allowed[index].forward = false;
+    } else {
+        allowed[index].backward = false;
+    }
+    prune(network.metabolite_count, &network.columns, &mut allowed);
+    let result = capable_directions(&network.columns, &allowed).map_err(|source| LoopError {
+        model: model.id.clone(),
+        stage: "constraint re-check",
+        source,
+    })?;
+    let still_looping: Vec<String> = cycle
+        .members
+        .iter()
+        .filter(|m| result.capable[m.index].allows(orientation * m.coefficient))
+        .map(|m| m.reaction.clone())
+        .collect();
+    Ok(Recheck {
+        breaks_loop: still_looping.is_empty(),
+        still_looping,
+    })
+}

@@ -1,0 +1,357 @@
+//! Loop analysis of published models, checked against flux variability
+//! computed here, reaction by reaction, with plain LPs.
+//!
+//! Flux variability (common practice; Mahadevan & Schilling, Metab. Eng. 5
+//! (2003) 264): for each reaction, min and max of its flux over S·v = 0 and
+//! the bounds. On the closed network (boundary reactions shut, bounds relaxed
+//! to include zero) the reactions with a nonzero min or max are exactly the
+//! loop-capable ones, in those directions.
+//!
+//! Models: tests/data/e_coli_core.xml.gz (Orth, Fleming & Palsson, EcoSal
+//! Plus 2010); ../shared/models (or `$GIBBSITE_MODELS_DIR`) for iML1515
+//! (Monk et al., Nat. Biotechnol. 35 (2017) 904) and Recon3D (Brunk et al.,
+//! Nat. Biotechnol. 36 (2018) 272), skipped with a visible message when
+//! absent. Loop-set sizes 61 (iML1515) and 2409 (Recon3D) were measured by
+//! an independent prototype of this analysis (reported in the task brief);
+//! the Recon3D figure is recomputed here by flux variability only in an
+//! opt-in (#[ignore]) test, since that takes thousands of LPs.
+
+use gibbsite::loops::{
+    analyse_loops, energy_generating_cycles, CurrencyOptions, LoopAnalysis, LoopOptions,
+};
+use gibbsite::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
+use gibbsite::model::Model;
+use gibbsite::project::sbml::read_sbml;
+use std::path::{Path, PathBuf};
+
+fn e_coli_core() -> Model {
+    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/data/e_coli_core.xml.gz");
+    read_sbml(&path).expect("e_coli_core imports")
+}
+
+fn shared_model(file: &str) -> Option<Model> {
+    let dir = match std::env::var_os("GIBBSITE_MODELS_DIR") {
+        Some(dir) => PathBuf::from(dir),
+        None => Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models"),
+    };
+    let path = dir.join(file);
+    if !path.is_file() {
+        visible(&format!("skipped: {} not found", path.display()));
+        return None;
+    }
+    Some(read_sbml(&path).unwrap_or_else(|e| panic!("{file} should import:\n{e}")))
+}
+
+/// Writes past the test harness's output capture so a skip always shows.
+fn visible(message: &str) {
+    use std::io::Write;
+    let _ = writeln!(std::io::stderr(), "{message}");
+}
+
+/// Closed-network bounds: boundary reactions shut, others relaxed to include 0.
+fn closed_bounds(model: &Model) -> Vec<(f64, f64)> {
+    model
+        .reactions
+        .iter()
+        .map(|r| {
+            if r.role.is_boundary() {
+                (0.0, 0.0)
+            } else {
+                (r.lower_bound.min(0.0), r.upper_bound.max(0.0))
+            }
+        })
+        .collect()
+}
+
+/// (min, max) of every reaction's flux on the closed network, one LP each.
+fn flux_variability(model: &Model) -> Vec<(f64, f64)> {
+    let bounds = closed_bounds(model);
+    let build = |sense: Sense, target: usize| {
+        let mut lp = LinearProgram::new(sense);
+        let vars: Vec<Var> = bounds
+            .iter()
+            .enumerate()
+            .map(|(r, &(lo, hi))| lp.add_variable(if r == target { 1.0 } else { 0.0 }, lo, hi))
+            .collect();
+        let mut rows = vec![Vec::new(); model.metabolites.len()];
+        for (r, reaction) in model.reactions.iter().enumerate() {
+            for &(m, c) in &reaction.stoichiometry {
+                rows[m].push((vars[r], c));
+            }
+        }
+        for row in rows.iter().filter(|r| !r.is_empty()) {
+            lp.add_row(row, Relation::Equal, 0.0);
+        }
+        lp
+    };
+    (0..model.reactions.len())
+        .map(|r| {
+            if bounds[r] == (0.0, 0.0) {
+                return (0.0, 0.0);
+            }
+            let min = build(Sense::Minimise, r)
+                .solve()
+                .expect("FVA min")
+                .objective;
+            let max = build(Sense::Maximise, r)
+                .solve()
+                .expect("FVA max")
+                .objective;
+            (min, max)
+        })
+        .collect()
+}
+
+/// The loop-capable set as (reaction id, forward, backward).
+fn capable(analysis: &LoopAnalysis) -> Vec<(String, bool, bool)> {
+    analysis
+        .loop_capable
+        .iter()
+        .map(|r| (r.reaction.clone(), r.forward, r.backward))
+        .collect()
+}
+
+/// The same set read off flux variability (|flux| above 1e-6 counts).
+fn capable_by_fva(model: &Model) -> Vec<(String, bool, bool)> {
+    flux_variability(model)
+        .iter()
+        .enumerate()
+        .filter(|(_, (min, max))| *max > 1e-6 || *min < -1e-6)
+        .map(|(r, (min, max))| (model.reactions[r].id.clone(), *max > 1e-6, *min < -1e-6))
+        .collect()
+}
+
+/// The same set for large models, with the same LP conditions as flux
+/// variability but asked as feasibility: can the flux be fixed at ±10⁻³
+/// (within bounds of ±1000)? One warm-started session answers every
+/// reaction; each feasible solution also settles every direction it shows.
+fn capable_by_feasibility(model: &Model) -> Vec<(String, bool, bool)> {
+    let bounds = closed_bounds(model);
+    let mut lp = LinearProgram::new(Sense::Maximise);
+    let vars: Vec<Var> = bounds
+        .iter()
+        .map(|&(lo, hi)| lp.add_variable(0.0, lo, hi))
+        .collect();
+    let mut rows = vec![Vec::new(); model.metabolites.len()];
+    for (r, reaction) in model.reactions.iter().enumerate() {
+        for &(m, c) in &reaction.stoichiometry {
+            rows[m].push((vars[r], c));
+        }
+    }
+    for row in rows.iter().filter(|r| !r.is_empty()) {
+        lp.add_row(row, Relation::Equal, 0.0);
+    }
+    let mut session = LpSession::start(&lp).expect("zero flux is feasible");
+    let n = model.reactions.len();
+    let (mut forward, mut backward) = (vec![false; n], vec![false; n]);
+    for r in 0..n {
+        for sign in [1.0, -1.0] {
+            let (allowed, seen) = if sign > 0.0 {
+                (bounds[r].1 > 0.0, forward[r])
+            } else {
+                (bounds[r].0 < 0.0, backward[r])
+            };
+            if !allowed || seen {
+                continue;
+            }
+            match session.fix(vars[r], sign * 1e-3) {
+                Ok(solution) => {
+                    let values = solution.values.clone();
+                    for (k, var) in vars.iter().enumerate() {
+                        let v = values[var.0];
+                        if v > 1e-6 {
+                            forward[k] = true;
+                        } else if v < -1e-6 {
+                            backward[k] = true;
+                        }
+                    }
+                    session.release(vars[r]).expect("release");
+                }
+                Err(LpError::Infeasible) => {}
+                Err(e) => panic!("{e}"),
+            }
+        }
+    }
+    (0..n)
+        .filter(|&r| forward[r] || backward[r])
+        .map(|r| (model.reactions[r].id.clone(), forward[r], backward[r]))
+        .collect()
+}
+
+fn assert_loops_sound(analysis: &LoopAnalysis) {
+    assert!(analysis.problems.is_empty(), "{:?}", analysis.problems);
+    assert!(!analysis.loops_truncated);
+    assert!(analysis.uncovered_reactions.is_empty());
+    for l in &analysis.loops {
+        assert!(l.verified && l.elementary, "{} {:?}", l.id, l.members);
+    }
+}
+
+// Orth et al. 2010 model: the closed network loops only through fumarate
+// reductase and succinate dehydrogenase, both forward (fum + q8h2 → succ + q8
+// and back through q8), as flux variability shows.
+#[test]
+fn e_coli_core_loop_set_is_frd7_and_sucdi_exactly() {
+    let model = e_coli_core();
+    let analysis = analyse_loops(&model, &LoopOptions::default()).unwrap();
+    let expected = vec![
+        ("R_SUCDi".to_string(), true, false),
+        ("R_FRD7".to_string(), true, false),
+    ];
+    let mut sorted_capable = capable(&analysis);
+    sorted_capable.sort();
+    let mut sorted_expected = expected.clone();
+    sorted_expected.sort();
+    assert_eq!(sorted_capable, sorted_expected);
+    assert_eq!(capable_by_fva(&model).len(), 2);
+    let mut by_fva = capable_by_fva(&model);
+    by_fva.sort();
+    assert_eq!(by_fva, sorted_expected);
+
+    // One loop: FRD7 + SUCDi, coefficients 1 : 1 (S·v = 0 by hand).
+    assert_eq!(analysis.loops.len(), 1);
+    let members: Vec<(&str, f64)> = analysis.loops[0]
+        .members
+        .iter()
+        .map(|m| (m.reaction.as_str(), m.coefficient))
+        .collect();
+    let mut members = members;
+    members.sort_by(|a, b| a.0.cmp(b.0));
+    assert_eq!(members, vec![("R_FRD7", 1.0), ("R_SUCDi", 1.0)]);
+    assert_loops_sound(&analysis);
+    // ATPM's forcing lower bound (8.39, Orth et al. 2010) is relaxed and reported.
+    assert!(analysis
+        .closure
+        .relaxed_bounds
+        .iter()
+        .any(|b| b.reaction == "R_ATPM" && b.relaxed_lower_bound == 0.0));
+}
+
+/// Max flux of an added dissipation reaction on the closed network, by a
+/// plain LP over the whole model (independent of the loop code).
+fn max_dissipation(model: &Model, equation: &[(String, f64)]) -> f64 {
+    let bounds = closed_bounds(model);
+    let mut lp = LinearProgram::new(Sense::Maximise);
+    let vars: Vec<Var> = bounds
+        .iter()
+        .map(|&(lo, hi)| lp.add_variable(0.0, lo, hi))
+        .collect();
+    let d = lp.add_variable(1.0, 0.0, 1000.0);
+    let mut rows = vec![Vec::new(); model.metabolites.len()];
+    for (r, reaction) in model.reactions.iter().enumerate() {
+        for &(m, c) in &reaction.stoichiometry {
+            rows[m].push((vars[r], c));
+        }
+    }
+    for (id, c) in equation {
+        rows[model.metabolite_index(id).unwrap()].push((d, *c));
+    }
+    for row in rows.iter().filter(|r| !r.is_empty()) {
+        lp.add_row(row, Relation::Equal, 0.0);
+    }
+    match lp.solve() {
+        Ok(s) => s.objective,
+        Err(LpError::Infeasible) => 0.0,
+        Err(e) => panic!("{e}"),
+    }
+}
+
+// Energy-generating cycles (Fritzemeier et al., PLoS Comput. Biol. 13 (2017)
+// e1005494) in e_coli_core: every dissipation test agrees with a plain LP
+// maximising the dissipation flux on the closed network.
+#[test]
+fn e_coli_core_energy_cycles_agree_with_direct_lp() {
+    let model = e_coli_core();
+    let result = energy_generating_cycles(&model, &CurrencyOptions::default()).unwrap();
+    let currencies: Vec<&str> = result
+        .results
+        .iter()
+        .map(|r| r.test.currency.as_str())
+        .collect();
+    for expected in [
+        "atp",
+        "nadh",
+        "nadph",
+        "ubiquinol-8",
+        "acetyl-coa",
+        "proton-gradient",
+    ] {
+        assert!(
+            currencies.contains(&expected),
+            "{expected} not tested: {currencies:?}"
+        );
+    }
+    for r in &result.results {
+        let direct = max_dissipation(&model, &r.test.equation);
+        assert_eq!(
+            r.cycle_exists,
+            direct > 1e-6,
+            "{:?}: LP max {direct}",
+            r.test
+        );
+    }
+}
+
+#[test]
+fn iml1515_loop_set() {
+    let Some(model) = shared_model("iML1515.xml.gz") else {
+        return;
+    };
+    let analysis = analyse_loops(&model, &LoopOptions::default()).unwrap();
+    assert_eq!(analysis.loop_capable.len(), 61);
+    assert_loops_sound(&analysis);
+}
+
+#[test]
+fn recon3d_loop_set() {
+    let Some(model) = shared_model("Recon3D.xml.gz") else {
+        return;
+    };
+    let options = LoopOptions {
+        find_loops: false,
+        max_loops: None,
+    };
+    let analysis = analyse_loops(&model, &options).unwrap();
+    assert_eq!(analysis.loop_capable.len(), 2409);
+}
+
+// Opt-in (thousands of LPs): the whole loop-capable set of iML1515, with
+// directions, equals the one flux variability gives.
+#[test]
+#[ignore]
+fn iml1515_loop_set_matches_flux_variability() {
+    let Some(model) = shared_model("iML1515.xml.gz") else {
+        return;
+    };
+    let analysis = analyse_loops(&model, &LoopOptions::default()).unwrap();
+    let mut ours = capable(&analysis);
+    ours.sort();
+    let mut fva = capable_by_fva(&model);
+    fva.sort();
+    assert_eq!(ours, fva);
+    // The feasibility form used for Recon3D agrees with true FVA here.
+    let mut feasibility = capable_by_feasibility(&model);
+    feasibility.sort();
+    assert_eq!(feasibility, fva);
+}
+
+// Opt-in (thousands of warm-started LPs on a 10 600-reaction model): the
+// same for Recon3D, with flux variability asked as feasibility.
+#[test]
+#[ignore]
+fn recon3d_loop_set_matches_flux_variability() {
+    let Some(model) = shared_model("Recon3D.xml.gz") else {
+        return;
+    };
+    let options = LoopOptions {
+        find_loops: false,
+        max_loops: None,
+    };
+    let analysis = analyse_loops(&model, &options).unwrap();
+    let mut ours = capable(&analysis);
+    ours.sort();
+    let mut fva = capable_by_feasibility(&model);
+    fva.sort();
+    assert_eq!(fva.len(), 2409);
+    assert_eq!(ours, fva);
+}
