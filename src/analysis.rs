@@ -3,6 +3,10 @@
 //! and ΔG' range). Checks read it; none of them changes it.
 
 use crate::checks;
+use crate::loops::{
+    self, CurrencyOptions, DeltaGRange, EnergyCycleAnalysis, LoopAnalysis, LoopEnergy,
+    LoopEnergyOptions, LoopError, StandardDeltaG,
+};
 use crate::model::{Model, Range, Role, Special};
 use crate::network::Network;
 use crate::project::{Project, Settings};
@@ -67,10 +71,21 @@ pub struct MissingEnergy {
     pub reasons: Vec<String>,
 }
 
+/// Results of the loop analysis (see `loops`).
+#[derive(Debug, Clone)]
+pub struct LoopResults {
+    pub loops: Result<LoopAnalysis, LoopError>,
+    /// ΔrG'° around each listed loop.
+    pub energies: Result<Vec<LoopEnergy>, LoopError>,
+    pub energy_cycles: Result<EnergyCycleAnalysis, LoopError>,
+}
+
 pub struct Analysis<'a> {
     pub model: &'a Model,
     pub settings: &'a Settings,
     pub network: Network,
+    /// `None` when the project switched the loop analysis off.
+    pub loops: Option<LoopResults>,
     pub metabolites: Vec<MetaboliteThermo>,
     pub reaction_thermo: Vec<Result<ReactionThermo, MissingEnergy>>,
     /// k in the k·σ allowance, from the confidence level.
@@ -90,6 +105,7 @@ impl<'a> Analysis<'a> {
             model,
             settings,
             network,
+            loops: None,
             metabolites,
             reaction_thermo: Vec::new(),
             sigma_multiplier,
@@ -97,7 +113,56 @@ impl<'a> Analysis<'a> {
         analysis.reaction_thermo = (0..model.reactions.len())
             .map(|j| analysis.compute_reaction(j))
             .collect();
+        if settings.loops {
+            analysis.loops = Some(analysis.run_loops());
+        }
         analysis
+    }
+
+    /// Internal loops, their energies and energy-generating cycles.
+    fn run_loops(&self) -> LoopResults {
+        let loops = loops::analyse_loops(self.model, &loops::LoopOptions::default());
+        let energies = match &loops {
+            Ok(found) => {
+                let standard: Vec<Option<StandardDeltaG>> = self
+                    .reaction_thermo
+                    .iter()
+                    .map(|t| {
+                        t.as_ref().ok().map(|t| StandardDeltaG {
+                            value_kj: t.drg0_kj,
+                            sigma_kj: t.sigma_kj,
+                        })
+                    })
+                    .collect();
+                // The same allowance as every verdict: range widened by k·σ.
+                let ranges: Vec<Option<DeltaGRange>> = self
+                    .reaction_thermo
+                    .iter()
+                    .map(|t| {
+                        t.as_ref().ok().map(|t| DeltaGRange {
+                            min_kj: t.range.min - self.sigma_multiplier * t.sigma_kj,
+                            max_kj: t.range.max + self.sigma_multiplier * t.sigma_kj,
+                        })
+                    })
+                    .collect();
+                let options = LoopEnergyOptions {
+                    confidence: self.sigma_multiplier,
+                    ..LoopEnergyOptions::default()
+                };
+                loops::assess_loop_energies(self.model, found, &standard, &ranges, &options)
+            }
+            Err(e) => Err(e.clone()),
+        };
+        let options = CurrencyOptions {
+            overrides: self.settings.currencies.clone(),
+            proton_gradients: None,
+        };
+        let energy_cycles = loops::energy_generating_cycles(self.model, &options);
+        LoopResults {
+            loops,
+            energies,
+            energy_cycles,
+        }
     }
 
     /// ΔfG'° of metabolite i, when known.

@@ -46,12 +46,14 @@ fn demo_report_lists_the_deliberate_problems() {
                 s("PEPS"),
                 Some(s("dusk"))
             ),
+            (Severity::Warning, s("internal-loop"), s("loop-1"), None),
             (
                 Severity::Warning,
                 s("scenario-marginal"),
                 s("GAPD"),
                 Some(s("noon"))
             ),
+            (Severity::Note, s("forced-flux"), s("ATPM"), None),
             (Severity::Note, s("no-energy-data"), s("STOR"), None),
             (Severity::Note, s("one-way-reversible"), s("HEX"), None),
             (Severity::Note, s("one-way-reversible"), s("LDH"), None),
@@ -63,7 +65,7 @@ fn demo_report_lists_the_deliberate_problems() {
             report.summary.warnings,
             report.summary.notes
         ),
-        (3, 1, 3)
+        (3, 2, 4)
     );
     assert_eq!(report.summary.reactions, 28);
     assert_eq!(report.summary.scenarios, 2);
@@ -258,4 +260,46 @@ fn library_values_and_neutral_transport() {
     let atp = report.metabolites.iter().find(|m| m.id == "atp_c").unwrap();
     assert_eq!(atp.energy_origin.as_deref(), Some("model"));
     assert_eq!(atp.library_key.as_deref(), Some("atp"));
+}
+
+/// PEPS as annotated (pyr + ATP → PEP + ADP) undoes pyruvate kinase: the pair
+/// is an internal loop. ΔrG'° around it is exactly 0 (both from the same
+/// formation energies); PEPS is the step to constrain (its ΔG' in the loop
+/// direction is at least 6.30 − 2.40 = 3.90 kJ/mol), and forbidding it breaks
+/// the loop.
+#[test]
+fn the_demo_loop_is_found_with_its_fix() {
+    let report = Project::load(&demo_dir()).unwrap().analyse();
+    let loops = report.loops.as_ref().unwrap();
+    assert_eq!(
+        loops
+            .capable
+            .iter()
+            .map(|c| c.reaction.as_str())
+            .collect::<Vec<_>>(),
+        ["PYK", "PEPS"]
+    );
+    assert_eq!(loops.loops.len(), 1);
+    let l = &loops.loops[0];
+    let members: Vec<(&str, f64)> = l
+        .members
+        .iter()
+        .map(|m| (m.reaction.as_str(), m.coefficient))
+        .collect();
+    assert_eq!(members, [("PYK", 1.0), ("PEPS", 1.0)]);
+    assert!(l.verified && !l.reversible && !l.inconsistent);
+    assert!(l.drg0_sum_kj.unwrap().abs() < 1e-9);
+    let c = l.constrain.as_ref().unwrap();
+    assert_eq!(
+        (c.reaction.as_str(), c.forbid.as_str()),
+        ("PEPS", "forward")
+    );
+    assert!((c.dg_min_kj - 3.897).abs() < 0.01, "{}", c.dg_min_kj);
+    assert_eq!(c.breaks_loop, Some(true));
+    // No currency is regenerated from nothing.
+    assert!(loops.energy_cycles.iter().all(|e| !e.cycle_exists));
+    assert!(loops.energy_cycles.iter().any(|e| e.currency == "atp"));
+    let pyk = report.reactions.iter().find(|r| r.id == "PYK").unwrap();
+    assert_eq!(pyk.loops, ["loop-1"]);
+    assert_eq!(pyk.loop_capable.as_deref(), Some("forward"));
 }

@@ -210,6 +210,8 @@ fn fixture() -> Report {
         missing_reasons: vec![],
         energy_terms: vec![],
         transport: None,
+        loop_capable: None,
+        loops: vec![],
     };
     let hostile = ReactionView {
         id: HOSTILE_REACTION.into(),
@@ -240,6 +242,8 @@ fn fixture() -> Report {
         missing_reasons: vec![],
         energy_terms: vec![],
         transport: None,
+        loop_capable: None,
+        loops: vec![],
     };
     let unknown = ReactionView {
         id: "UNK".into(),
@@ -267,6 +271,8 @@ fn fixture() -> Report {
         missing_reasons: vec!["pi_c: species data lack ΔfH° away from 298.15 K".into()],
         energy_terms: vec![],
         transport: None,
+        loop_capable: None,
+        loops: vec![],
     };
     // Symport of the acid with a proton into the cytosol. Terms in the
     // report's order (products first); the page lists the consumed first.
@@ -311,6 +317,8 @@ fn fixture() -> Report {
             electrical_term_kj: 9.6485,
             reference_independent: false,
         }),
+        loop_capable: None,
+        loops: vec![],
     };
     let mut acid_p = metabolite("ha_p", "weak acid", &["HAT"], &[]);
     acid_p.compartment = "p".into();
@@ -455,6 +463,7 @@ fn fixture() -> Report {
                        ![remote picture](https://example.org/pic.png)\n"
                 .into(),
         }],
+        loops: None,
     }
 }
 
@@ -1418,6 +1427,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
             ["✖ error", "infeasible-direction", "PEPS", "—"],
             ["✖ error", "scenario-contradiction", "LDH", "dusk"],
             ["✖ error", "scenario-contradiction", "PEPS", "dusk"],
+            ["▲ warning", "internal-loop", "loop-1, PYK, PEPS", "—"],
             ["▲ warning", "scenario-marginal", "GAPD", "noon"],
         ]
     );

@@ -6,6 +6,8 @@ use crate::report::Finding;
 
 pub mod balance;
 pub mod bounds_audit;
+pub mod energy_cycles;
+pub mod internal_loops;
 pub mod missing_energy;
 pub mod scenario_directions;
 
@@ -26,6 +28,8 @@ pub const REGISTRY: &[Check] = &[
     bounds_audit::CHECK,
     scenario_directions::CHECK,
     missing_energy::CHECK,
+    internal_loops::CHECK,
+    energy_cycles::CHECK,
 ];
 
 /// Shorthand for the evidence map of a finding.

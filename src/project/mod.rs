@@ -44,6 +44,10 @@ pub struct Settings {
     pub confidence: f64,
     pub default_concentration: Range,
     pub min_driving_force_kj: f64,
+    /// Run the loop analysis (internal loops, energy-generating cycles).
+    pub loops: bool,
+    /// Currency key → metabolite ids, overriding automatic recognition.
+    pub currencies: std::collections::BTreeMap<String, Vec<String>>,
 }
 
 /// A Markdown note shown in the report.
@@ -104,6 +108,8 @@ impl Project {
                 confidence: DEFAULT_CONFIDENCE,
                 default_concentration: DEFAULT_CONCENTRATION,
                 min_driving_force_kj: DEFAULT_MIN_DRIVING_FORCE_KJ,
+                loops: true,
+                currencies: Default::default(),
             },
             model,
             notes: Vec::new(),
@@ -236,6 +242,7 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
     let mut model = load_model_files(&model_files, &extra)?;
     apply_side_tables(&mut model, &raw, &root, settings_path, &map)?;
     apply_role_overrides(&mut model, &raw, settings_path, &map)?;
+    check_currency_ids(&model, &raw, settings_path, &map)?;
     let notes = match &notes_dir {
         Some(dir) => read_notes(dir)?,
         None => Vec::new(),
@@ -250,6 +257,12 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
             confidence,
             default_concentration,
             min_driving_force_kj,
+            loops: raw.loops.unwrap_or(true),
+            currencies: raw
+                .currencies
+                .iter()
+                .map(|(k, v)| (k.clone(), v.0.clone()))
+                .collect(),
         },
         model,
         notes,
@@ -286,6 +299,35 @@ fn apply_side_tables(
         }
         if let Err(ds) = tables::apply_side_table(&path, model) {
             diagnostics.extend(ds);
+        }
+    }
+    if diagnostics.is_empty() {
+        Ok(())
+    } else {
+        Err(Error::Input(diagnostics))
+    }
+}
+
+/// Currency overrides must name metabolites of the model.
+fn check_currency_ids(
+    model: &Model,
+    raw: &RawSettings,
+    settings_path: &Path,
+    map: &sourcemap::SourceMap,
+) -> Result<()> {
+    let mut diagnostics = Vec::new();
+    for (key, ids) in &raw.currencies {
+        for id in &ids.0 {
+            if model.metabolite_index(id).is_none() {
+                let p = vec![Segment::Key("currencies".into()), Segment::Key(key.clone())];
+                diagnostics.push(
+                    Diagnostic::new(
+                        settings_path,
+                        format!("currency `{key}` names unknown metabolite `{id}`"),
+                    )
+                    .at_opt(map.nearest(&p).map(|l| l.pair())),
+                );
+            }
         }
     }
     if diagnostics.is_empty() {

@@ -139,6 +139,12 @@ pub struct RawSettings {
     pub scenarios: Vec<RawScenario>,
     /// Side tables (CSV/TSV) of ΔfG'°, species data, ΔrG'° or concentrations.
     pub tables: Option<OneOrMany>,
+    /// Look for internal loops and energy-generating cycles (default true).
+    pub loops: Option<bool>,
+    /// Currency key (`atp`, `adp`, `pi`, `h`, `h2o`, `nadh`, …) → metabolite
+    /// ids, replacing automatic recognition for energy-generating cycles.
+    #[serde(default)]
+    pub currencies: BTreeMap<String, OneOrMany>,
     /// Reaction id → role, overriding the model (and SBML inference).
     #[serde(default)]
     pub roles: BTreeMap<String, String>,

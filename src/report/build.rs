@@ -118,6 +118,7 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
                 markdown: n.markdown.clone(),
             })
             .collect(),
+        loops: loops_view(model, analysis),
     }
 }
 
@@ -327,9 +328,241 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                         electrical_term_kj: b.electrical_term_kj,
                         reference_independent: b.reference_independent,
                     }),
+                loop_capable: capable_of(analysis, j),
+                loops: loops_of(analysis, j),
             }
         })
         .collect()
+}
+
+fn found_loops<'a>(analysis: &'a Analysis) -> Option<&'a crate::loops::LoopAnalysis> {
+    analysis.loops.as_ref()?.loops.as_ref().ok()
+}
+
+fn capable_of(analysis: &Analysis, j: usize) -> Option<String> {
+    let c = found_loops(analysis)?
+        .loop_capable
+        .iter()
+        .find(|c| c.index == j)?;
+    Some(
+        match (c.forward, c.backward) {
+            (true, true) => "both",
+            (true, false) => "forward",
+            _ => "backward",
+        }
+        .to_string(),
+    )
+}
+
+fn loops_of(analysis: &Analysis, j: usize) -> Vec<String> {
+    found_loops(analysis)
+        .map(|f| {
+            f.loops
+                .iter()
+                .filter(|l| l.members.iter().any(|m| m.index == j))
+                .map(|l| l.id.clone())
+                .collect()
+        })
+        .unwrap_or_default()
+}
+
+/// Reaction and metabolite slugs, computed once per report.
+struct Slugs {
+    reactions: Vec<String>,
+    metabolites: Vec<String>,
+}
+
+fn member_view(
+    model: &Model,
+    analysis: &Analysis,
+    slugs: &Slugs,
+    m: &crate::loops::LoopMember,
+) -> LoopMemberView {
+    let thermo = analysis
+        .reaction_thermo
+        .get(m.index)
+        .and_then(|t| t.as_ref().ok());
+    let metabolite_slugs = &slugs.metabolites;
+    LoopMemberView {
+        reaction: m.reaction.clone(),
+        slug: slugs.reactions[m.index].clone(),
+        name: model.reactions[m.index].name.clone(),
+        equation: equation_text(model, m.index),
+        coefficient: m.coefficient,
+        drg0_kj: thermo.map(|t| t.drg0_kj),
+        sigma_kj: thermo.map(|t| t.sigma_kj),
+        participants: model.reactions[m.index]
+            .stoichiometry
+            .iter()
+            .map(|&(i, c)| ParticipantView {
+                metabolite: model.metabolites[i].id.clone(),
+                slug: metabolite_slugs[i].clone(),
+                name: model.metabolites[i].name.clone(),
+                coefficient: c,
+            })
+            .collect(),
+    }
+}
+
+fn constraint_view(slugs: &[String], c: &crate::loops::ConstraintSuggestion) -> ConstraintView {
+    ConstraintView {
+        reaction: c.reaction.clone(),
+        slug: slugs[c.index].clone(),
+        forbid: c.forbid.to_string(),
+        dg_min_kj: c.dg_min_in_loop_direction_kj,
+        basis: match c.basis {
+            crate::loops::DeltaGBasis::Range => "range",
+            crate::loops::DeltaGBasis::Standard => "standard",
+        }
+        .to_string(),
+        breaks_loop: c.rechecked.as_ref().map(|r| r.breaks_loop),
+        still_looping: c
+            .rechecked
+            .as_ref()
+            .map(|r| r.still_looping.clone())
+            .unwrap_or_default(),
+    }
+}
+
+fn loops_view(model: &Model, analysis: &Analysis) -> Option<LoopsView> {
+    let results = analysis.loops.as_ref()?;
+    let all = Slugs {
+        reactions: unique_slugs(model.reactions.iter().map(|r| r.id.as_str())),
+        metabolites: metabolite_slugs(model),
+    };
+    let slugs = &all.reactions;
+    let slug_of = |id: &str| {
+        model
+            .reaction_index(id)
+            .map(|j| slugs[j].clone())
+            .unwrap_or_else(|| crate::slug::slug(id))
+    };
+    let mut view = LoopsView {
+        error: None,
+        shut_reactions: 0,
+        relaxed_bounds: Vec::new(),
+        reactions_after_pruning: 0,
+        pruned_reactions: 0,
+        capable: Vec::new(),
+        loops: Vec::new(),
+        truncated: false,
+        limit: None,
+        uncovered: Vec::new(),
+        energy_cycles: Vec::new(),
+        not_testable: Vec::new(),
+    };
+    match &results.loops {
+        Err(e) => view.error = Some(e.to_string()),
+        Ok(found) => {
+            view.shut_reactions = found.closure.shut_reactions.len();
+            view.relaxed_bounds = found
+                .closure
+                .relaxed_bounds
+                .iter()
+                .map(|r| RelaxedBoundView {
+                    reaction: r.reaction.clone(),
+                    slug: slug_of(&r.reaction),
+                    lower_bound: r.lower_bound,
+                    upper_bound: r.upper_bound,
+                    relaxed_lower_bound: r.relaxed_lower_bound,
+                    relaxed_upper_bound: r.relaxed_upper_bound,
+                })
+                .collect();
+            view.reactions_after_pruning = found.stats.reactions_after_pruning;
+            view.pruned_reactions = found.pruning.removed_reactions;
+            view.capable = found
+                .loop_capable
+                .iter()
+                .map(|c| CapableView {
+                    reaction: c.reaction.clone(),
+                    slug: slugs[c.index].clone(),
+                    forward: c.forward,
+                    backward: c.backward,
+                })
+                .collect();
+            view.truncated = found.loops_truncated;
+            view.limit = found.loop_limit;
+            view.uncovered = found.uncovered_reactions.clone();
+            let energies = results.energies.as_ref().ok();
+            view.loops = found
+                .loops
+                .iter()
+                .enumerate()
+                .map(|(k, l)| {
+                    let e = energies
+                        .and_then(|es| es.get(k))
+                        .filter(|e| e.loop_id == l.id);
+                    let complete = e.is_some_and(|e| e.members_without_data.is_empty());
+                    LoopView {
+                        id: l.id.clone(),
+                        members: l
+                            .members
+                            .iter()
+                            .map(|m| member_view(model, analysis, &all, m))
+                            .collect(),
+                        metabolites: l.metabolites.clone(),
+                        reversible: l.reversible,
+                        verified: l.verified,
+                        drg0_sum_kj: e.filter(|_| complete).map(|e| e.sum_kj),
+                        sigma_kj: e.filter(|_| complete).map(|e| e.sigma_kj),
+                        members_without_data: e
+                            .map(|e| e.members_without_data.clone())
+                            .unwrap_or_default(),
+                        inconsistent: e.is_some_and(|e| e.inconsistent),
+                        constrain: e
+                            .and_then(|e| e.constrain.as_ref())
+                            .map(|c| constraint_view(slugs, c)),
+                        constrain_reversed: e
+                            .and_then(|e| e.constrain_reversed.as_ref())
+                            .map(|c| constraint_view(slugs, c)),
+                    }
+                })
+                .collect();
+        }
+    }
+    match &results.energy_cycles {
+        Err(e) => {
+            if view.error.is_none() {
+                view.error = Some(e.to_string());
+            }
+        }
+        Ok(cycles) => {
+            view.not_testable = cycles.not_testable.clone();
+            view.energy_cycles = cycles
+                .results
+                .iter()
+                .map(|r| {
+                    let side = |negative: bool| {
+                        r.test
+                            .equation
+                            .iter()
+                            .filter(|(_, c)| (*c < 0.0) == negative)
+                            .map(|(m, c)| {
+                                if c.abs() == 1.0 {
+                                    m.clone()
+                                } else {
+                                    format!("{} {m}", c.abs())
+                                }
+                            })
+                            .collect::<Vec<_>>()
+                            .join(" + ")
+                    };
+                    EnergyCycleView {
+                        currency: r.test.currency.clone(),
+                        compartment: r.test.compartment.clone(),
+                        equation: format!("{} -> {}", side(true), side(false)),
+                        cycle_exists: r.cycle_exists,
+                        example: r
+                            .example
+                            .iter()
+                            .map(|m| member_view(model, analysis, &all, m))
+                            .collect(),
+                    }
+                })
+                .collect();
+        }
+    }
+    Some(view)
 }
 
 fn scenario_views(model: &Model, analysis: &Analysis) -> Vec<ScenarioView> {

@@ -85,6 +85,115 @@ pub struct Report {
     pub reactions: Vec<ReactionView>,
     pub scenarios: Vec<ScenarioView>,
     pub notes: Vec<NoteView>,
+    /// Internal loops and energy-generating cycles; `None` when switched off.
+    pub loops: Option<LoopsView>,
+}
+
+/// What the loop analysis found in the closed network.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct LoopsView {
+    /// Why the analysis did not finish, if it did not.
+    pub error: Option<String>,
+    /// Boundary reactions shut to close the network.
+    pub shut_reactions: usize,
+    /// Bounds that forced flux, relaxed to include zero.
+    pub relaxed_bounds: Vec<RelaxedBoundView>,
+    /// Reactions left after dead-end pruning / removed by it.
+    pub reactions_after_pruning: usize,
+    pub pruned_reactions: usize,
+    /// Every reaction that can carry flux in the closed network.
+    pub capable: Vec<CapableView>,
+    pub loops: Vec<LoopView>,
+    /// The list stops at `limit` loops before covering every capable reaction.
+    pub truncated: bool,
+    pub limit: Option<usize>,
+    pub uncovered: Vec<String>,
+    pub energy_cycles: Vec<EnergyCycleView>,
+    /// Currencies without a complete dissipation reaction in the model.
+    pub not_testable: Vec<String>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct RelaxedBoundView {
+    pub reaction: String,
+    pub slug: String,
+    pub lower_bound: f64,
+    pub upper_bound: f64,
+    pub relaxed_lower_bound: f64,
+    pub relaxed_upper_bound: f64,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CapableView {
+    pub reaction: String,
+    pub slug: String,
+    pub forward: bool,
+    pub backward: bool,
+}
+
+/// One elementary loop.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct LoopView {
+    /// `loop-1`, `loop-2`, … (its page is `loops/<id>.html`).
+    pub id: String,
+    pub members: Vec<LoopMemberView>,
+    /// Metabolites its reactions touch (ids), for the cycle map.
+    pub metabolites: Vec<String>,
+    /// Every member can also run the other way.
+    pub reversible: bool,
+    /// S·v = 0 within tolerance and every direction allowed by the bounds.
+    pub verified: bool,
+    /// Σ coef·ΔrG'° over members with data, its σ, and the members without.
+    pub drg0_sum_kj: Option<f64>,
+    pub sigma_kj: Option<f64>,
+    pub members_without_data: Vec<String>,
+    /// Complete data whose sum is beyond k·σ of zero.
+    pub inconsistent: bool,
+    pub constrain: Option<ConstraintView>,
+    /// For a reversible loop run backwards.
+    pub constrain_reversed: Option<ConstraintView>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct LoopMemberView {
+    pub reaction: String,
+    pub slug: String,
+    pub name: String,
+    pub equation: String,
+    /// Relative flux around the loop: negative = runs backward.
+    pub coefficient: f64,
+    pub drg0_kj: Option<f64>,
+    pub sigma_kj: Option<f64>,
+    /// (metabolite id, slug, coefficient in the reaction) for the cycle map.
+    pub participants: Vec<ParticipantView>,
+}
+
+/// The member best constrained to break a loop.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ConstraintView {
+    pub reaction: String,
+    pub slug: String,
+    /// "forward" or "backward": the direction to forbid.
+    pub forbid: String,
+    /// Smallest ΔG' of that reaction in the loop's direction, kJ/mol.
+    pub dg_min_kj: f64,
+    /// "range" (from concentration bounds ± k·σ) or "standard" (ΔrG'° ± k·σ).
+    pub basis: String,
+    /// Whether forbidding that direction stops the loop (None: not re-checked).
+    pub breaks_loop: Option<bool>,
+    pub still_looping: Vec<String>,
+}
+
+/// One energy-generating-cycle test.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct EnergyCycleView {
+    pub currency: String,
+    pub compartment: String,
+    /// The dissipation reaction tested, e.g. `atp_c + h2o_c -> adp_c + pi_c + h_c`.
+    pub equation: String,
+    pub cycle_exists: bool,
+    /// Reactions of an example flux (with the dissipation at 1).
+    pub example: Vec<LoopMemberView>,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -308,6 +417,11 @@ pub struct ReactionView {
     pub energy_terms: Vec<EnergyTermView>,
     /// Proton and electrical terms of a transport step.
     pub transport: Option<TransportView>,
+    /// Directions it can carry flux in the closed network ("forward",
+    /// "backward", "both"), when it can.
+    pub loop_capable: Option<String>,
+    /// Ids of the listed loops it belongs to.
+    pub loops: Vec<String>,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
