@@ -17,7 +17,8 @@
 use super::species_chart::shorten;
 use super::svg::round2;
 use crate::report::LoopMemberView;
-use std::collections::{BTreeMap, BTreeSet};
+use serde::Serialize;
+use std::collections::BTreeMap;
 use std::f64::consts::PI;
 use svg::node::element::{Group, Path, Rectangle, Text, Title};
 use svg::Document;
@@ -28,9 +29,10 @@ use svg::Document;
 const LARGE_LOOP: usize = 10;
 const BOX_HEIGHT: f64 = 38.0;
 const WIDE_BOX: f64 = 132.0;
-const NARROW_BOX: f64 = 92.0;
-/// Space kept between neighbouring boxes along the circle.
-const BOX_GAP: f64 = 30.0;
+const NARROW_BOX: f64 = 104.0;
+/// Space kept between neighbouring boxes along the circle: room for the
+/// clearance on both sides and an arrowhead.
+const BOX_GAP: f64 = 36.0;
 const MIN_RADIUS: f64 = 110.0;
 /// Rough advance of one character at the 12 px of the map, used to size
 /// the drawing around its labels (generous, so nothing is clipped).
@@ -48,13 +50,21 @@ const ARROW_HALF_WIDTH: f64 = 5.0;
 const ARROW_CLEARANCE: f64 = 5.0;
 const MARGIN: f64 = 10.0;
 
-/// A drawn map and the shared metabolites it could not place on an arrow.
+/// A drawn map and the shared metabolites it could not fully show.
 #[derive(Debug, Clone, PartialEq)]
 pub struct LoopMap {
     pub svg: String,
-    /// Metabolites touched by two or more members that never pass between
-    /// two neighbours on the map, with the members touching them.
-    pub not_on_arrows: Vec<(String, Vec<String>)>,
+    /// Metabolites that pass between members that are not neighbours on
+    /// the map (so no arrow shows that step), sorted by id.
+    pub not_on_arrows: Vec<SharedMetabolite>,
+}
+
+/// Who makes and who uses a metabolite when the loop turns its way.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct SharedMetabolite {
+    pub metabolite: String,
+    pub made_by: Vec<String>,
+    pub used_by: Vec<String>,
 }
 
 /// Signed flux of each metabolite through each member when the loop runs
@@ -116,14 +126,21 @@ fn link_weight(
         .sum()
 }
 
-/// Search steps allowed before settling for the greedy order.
+/// Search steps allowed before settling for the best order found by
+/// local improvement.
 const SEARCH_BUDGET: usize = 20_000;
+/// Loops longer than this skip the local improvement (cubic in the size).
+const IMPROVE_LIMIT: usize = 40;
 
 /// An order of `members` (indices) in which each passes a metabolite on to
 /// the next and the last back to the first, starting from the first member
-/// and trying the strongest links first. When no such order is found
-/// within the search budget, a greedy walk along the strongest links.
-/// Deterministic: ties go to the lower index.
+/// and trying the strongest links first.
+///
+/// A branched loop (one member feeding two others, as non-unit
+/// coefficients allow) has no such order; then chains of linked members
+/// are built greedily and improved by moving short runs of members, so
+/// that as many neighbours as possible are linked. Deterministic: ties go
+/// to the lower index.
 pub fn loop_order(members: &[LoopMemberView]) -> Vec<usize> {
     let n = members.len();
     if n <= 2 {
@@ -160,7 +177,14 @@ pub fn loop_order(members: &[LoopMemberView]) -> Vec<usize> {
     if closed_walk(&next, &weight, &mut path, &mut used, &mut steps) {
         return path;
     }
-    greedy_order(&weight)
+    let mut order = chained_order(&weight);
+    if n <= IMPROVE_LIMIT {
+        improve(&mut order, &weight);
+    }
+    // The first member back at the top of the map.
+    let first = order.iter().position(|&k| k == 0).unwrap_or(0);
+    order.rotate_left(first);
+    order
 }
 
 /// Depth-first search for a cycle through every member.
@@ -194,27 +218,77 @@ fn closed_walk(
     false
 }
 
-fn greedy_order(weight: &[Vec<f64>]) -> Vec<usize> {
+/// Follows the strongest link out of each member; where none is left,
+/// starts a new chain at a member no unused member feeds.
+fn chained_order(weight: &[Vec<f64>]) -> Vec<usize> {
     let n = weight.len();
     let mut order = vec![0];
     let mut used = vec![false; n];
     used[0] = true;
     while order.len() < n {
         let last = *order.last().expect("the order starts with one member");
-        let best = (0..n)
-            .filter(|&j| !used[j])
-            // Strongest link out, then strongest in either direction.
-            .max_by(|&a, &b| {
-                (weight[last][a], weight[a][last])
-                    .partial_cmp(&(weight[last][b], weight[b][last]))
-                    .unwrap_or(std::cmp::Ordering::Equal)
-                    .then(b.cmp(&a))
-            })
-            .expect("an unused member remains");
-        used[best] = true;
-        order.push(best);
+        let linked = (0..n)
+            .filter(|&j| !used[j] && weight[last][j] > 0.0)
+            .max_by(|&a, &b| weight[last][a].total_cmp(&weight[last][b]).then(b.cmp(&a)));
+        let chosen = linked.unwrap_or_else(|| {
+            let fed = |j: usize| (0..n).filter(|&i| !used[i] && weight[i][j] > 0.0).count();
+            (0..n)
+                .filter(|&j| !used[j])
+                .min_by_key(|&j| (fed(j), j))
+                .expect("an unused member remains")
+        });
+        used[chosen] = true;
+        order.push(chosen);
     }
     order
+}
+
+/// How well `order` chains, read around the circle: every linked pair of
+/// neighbours counts far more than the strength of the links.
+fn chain_score(order: &[usize], weight: &[Vec<f64>]) -> f64 {
+    (0..order.len())
+        .map(|k| {
+            let w = weight[order[k]][order[(k + 1) % order.len()]];
+            if w > 0.0 {
+                1000.0 + w
+            } else {
+                0.0
+            }
+        })
+        .sum()
+}
+
+/// Moves runs of one to three members elsewhere while that links more
+/// neighbours (the "or-opt" move of tour improvement), taking the first
+/// improving move each round.
+fn improve(order: &mut Vec<usize>, weight: &[Vec<f64>]) {
+    let n = order.len();
+    let mut best = chain_score(order, weight);
+    for _round in 0..(2 * n) {
+        let mut improved = false;
+        'search: for run in 1..=3.min(n - 1) {
+            for from in 0..=(n - run) {
+                for to in 0..=(n - run) {
+                    if to == from {
+                        continue;
+                    }
+                    let mut candidate = order.clone();
+                    let moved: Vec<usize> = candidate.drain(from..from + run).collect();
+                    candidate.splice(to..to, moved);
+                    let score = chain_score(&candidate, weight);
+                    if score > best + 1e-9 {
+                        *order = candidate;
+                        best = score;
+                        improved = true;
+                        break 'search;
+                    }
+                }
+            }
+        }
+        if !improved {
+            break;
+        }
+    }
 }
 
 /// "forward", "backward", "2 × backward".
@@ -241,6 +315,22 @@ struct Ring {
 }
 
 impl Ring {
+    fn for_members(count: usize) -> Ring {
+        let box_width = if count > LARGE_LOOP {
+            NARROW_BOX
+        } else {
+            WIDE_BOX
+        };
+        // Neighbours straddling the top are side by side: the chord
+        // between them must hold a box and the gap.
+        let radius = (box_width + BOX_GAP) / (2.0 * (PI / count as f64).sin());
+        Ring {
+            radius: round2(radius.max(MIN_RADIUS)),
+            count,
+            box_width,
+        }
+    }
+
     fn angle(&self, k: f64) -> f64 {
         -PI / 2.0 + 2.0 * PI * k / self.count as f64
     }
@@ -327,16 +417,9 @@ pub fn loop_map(title: &str, members: &[LoopMemberView]) -> Option<LoopMap> {
     let flows = flows(members);
     let counts = touch_counts(&flows);
     let large = n > LARGE_LOOP;
-    let box_width = if large { NARROW_BOX } else { WIDE_BOX };
+    let circle = Ring::for_members(n);
+    let (radius, box_width) = (circle.radius, circle.box_width);
     let id_chars = ((box_width - 12.0) / CHAR_WIDTH) as usize;
-    // Neighbours straddling the top are side by side: the chord between
-    // them must hold a box and the gap.
-    let radius = round2(((box_width + BOX_GAP) / (2.0 * (PI / n as f64).sin())).max(MIN_RADIUS));
-    let circle = Ring {
-        radius,
-        count: n,
-        box_width,
-    };
     let mut bounds = Bounds::default();
 
     let mut doc = Document::new().set("class", "loop-map").set("role", "img");
@@ -350,7 +433,6 @@ pub fn loop_map(title: &str, members: &[LoopMemberView]) -> Option<LoopMap> {
     )));
 
     // Arrows first, so boxes and labels sit on top of them.
-    let mut on_arrows = BTreeSet::new();
     let mut arrows = Group::new().set("class", "arrows");
     let mut labels = Group::new().set("class", "passed");
     for k in 0..n {
@@ -365,13 +447,17 @@ pub fn loop_map(title: &str, members: &[LoopMemberView]) -> Option<LoopMap> {
         let (dx, dy) = (-end.sin(), end.cos());
         let (bx, by) = (tx - ARROW_LENGTH * dx, ty - ARROW_LENGTH * dy);
         let passed_here = passed(&flows, &counts, k, to);
-        on_arrows.extend(passed_here.iter().copied());
-        let mut arrow = Group::new().set("class", "arrow").add(Title::new(format!(
+        let linked = if passed_here.is_empty() {
+            "arrow unlinked"
+        } else {
+            "arrow"
+        };
+        let mut arrow = Group::new().set("class", linked).add(Title::new(format!(
             "{} → {}{}",
             members[k].reaction,
             members[to].reaction,
             if passed_here.is_empty() {
-                String::new()
+                ": nothing passes directly (the loop branches)".to_string()
             } else {
                 format!(": passes {}", passed_here.join(", "))
             }
@@ -460,7 +546,10 @@ pub fn loop_map(title: &str, members: &[LoopMemberView]) -> Option<LoopMap> {
                     top + 31.0,
                     "middle",
                     "node-way",
-                    shorten(&format!("{} · {way}", k + 1), id_chars + 2),
+                    shorten(
+                        &format!("{} · {}", k + 1, way.replace(" × ", "× ")),
+                        id_chars + 4,
+                    ),
                 )),
         );
         bounds.add(left, top);
@@ -481,17 +570,25 @@ pub fn loop_map(title: &str, members: &[LoopMemberView]) -> Option<LoopMap> {
         .set("width", width)
         .set("height", height);
 
+    let neighbours = |i: usize, j: usize| (i + 1) % n == j;
     let not_on_arrows = counts
-        .iter()
-        .filter(|&(m, &c)| c >= 2 && !on_arrows.contains(m))
-        .map(|(&m, _)| {
-            let touching = members
-                .iter()
-                .zip(&flows)
-                .filter(|(_, f)| f.contains_key(m))
-                .map(|(member, _)| member.reaction.clone())
+        .keys()
+        .filter_map(|&m| {
+            let made: Vec<usize> = (0..n)
+                .filter(|&i| flows[i].get(m).is_some_and(|&v| v > 0.0))
                 .collect();
-            (m.to_string(), touching)
+            let used: Vec<usize> = (0..n)
+                .filter(|&j| flows[j].get(m).is_some_and(|&v| v < 0.0))
+                .collect();
+            let hidden = made
+                .iter()
+                .any(|&i| used.iter().any(|&j| !neighbours(i, j)));
+            let names = |ks: &[usize]| ks.iter().map(|&k| members[k].reaction.clone()).collect();
+            hidden.then(|| SharedMetabolite {
+                metabolite: m.to_string(),
+                made_by: names(&made),
+                used_by: names(&used),
+            })
         })
         .collect();
     Some(LoopMap {
@@ -628,8 +725,17 @@ mod tests {
         assert_eq!(map.svg.matches("class=\"arrowhead\"").count(), 4);
         assert!(map.svg.contains("3 · forward"), "{}", map.svg);
         assert!(map.svg.contains("4 · backward"), "{}", map.svg);
-        // Every metabolite here passes between neighbours.
-        assert!(map.not_on_arrows.is_empty(), "{:?}", map.not_on_arrows);
+        // H⁺ made by R1 is used by R3, two steps on: listed beside the map.
+        assert_eq!(
+            map.not_on_arrows,
+            [SharedMetabolite {
+                metabolite: "h".into(),
+                made_by: vec!["R1".into(), "R2".into()],
+                used_by: vec!["R3".into(), "R4".into()],
+            }]
+        );
+        // Every neighbour passes something on: no dashed arrow.
+        assert!(!map.svg.contains("unlinked"));
     }
 
     #[test]
@@ -647,13 +753,8 @@ mod tests {
                 })
                 .collect();
             let map = loop_map("loop", &members).unwrap();
-            let width = if n > LARGE_LOOP { NARROW_BOX } else { WIDE_BOX };
-            let radius = ((width + BOX_GAP) / (2.0 * (PI / n as f64).sin())).max(MIN_RADIUS);
-            let c = Ring {
-                radius,
-                count: n,
-                box_width: width,
-            };
+            let c = Ring::for_members(n);
+            let (radius, width) = (c.radius, c.box_width);
             for k in 0..n {
                 let (x1, y1) = c.point(c.angle(k as f64), radius);
                 let (x2, y2) = c.point(c.angle(k as f64 + 1.0), radius);

@@ -163,6 +163,9 @@ fn sorted_report(report: &Report) -> Report {
             .scenario_verdicts
             .sort_by(|a, b| a.scenario.cmp(&b.scenario));
         reaction.missing_data.sort();
+        reaction
+            .loops
+            .sort_by(|a, b| natural_key(a).cmp(&natural_key(b)));
     }
     if let Some(loops) = &mut r.loops {
         loops
