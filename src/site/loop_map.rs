@@ -739,6 +739,35 @@ mod tests {
     }
 
     #[test]
+    fn a_branched_loop_links_as_many_neighbours_as_it_can() {
+        // A makes two y, used by B and C alike; both make z, of which D
+        // uses two to give back the x A uses (invented; balanced: common
+        // practice for a loop). No order links all four neighbours.
+        let members = vec![
+            member("D", 1.0, &[("z", -2.0), ("x", 1.0)]),
+            member("B", 1.0, &[("y", -1.0), ("z", 1.0)]),
+            member("A", 1.0, &[("x", -1.0), ("y", 2.0)]),
+            member("C", 1.0, &[("y", -1.0), ("z", 1.0)]),
+        ];
+        let order = loop_order(&members);
+        // D → A → B, then C (nothing passes B → C), then C → D.
+        assert_eq!(order, vec![0, 2, 1, 3]);
+        let ordered: Vec<_> = order.iter().map(|&k| members[k].clone()).collect();
+        let map = loop_map("loop-3", &ordered).unwrap();
+        assert_eq!(map.svg.matches("<g class=\"arrow unlinked\">").count(), 1);
+        assert_eq!(map.svg.matches("<g class=\"arrow\">").count(), 3);
+        // y also goes from A to C, z from B to D: listed beside the map.
+        let listed: Vec<&str> = map
+            .not_on_arrows
+            .iter()
+            .map(|s| s.metabolite.as_str())
+            .collect();
+        assert_eq!(listed, ["y", "z"]);
+        assert_eq!(map.not_on_arrows[1].made_by, ["B", "C"]);
+        assert_eq!(map.not_on_arrows[1].used_by, ["D"]);
+    }
+
+    #[test]
     fn boxes_never_overlap_up_to_thirty_members() {
         for n in [2, 3, 5, 10, 11, 30] {
             let members: Vec<_> = (0..n)

@@ -173,7 +173,9 @@ fn sorted_report(report: &Report) -> Report {
             .sort_by(|a, b| natural_key(&a.id).cmp(&natural_key(&b.id)));
         for l in &mut loops.loops {
             // Members in the order they pass metabolites on, as the cycle
-            // map draws them, so table and map read the same way round.
+            // map draws them, so table and map read the same way round;
+            // sorted first so the order does not depend on the input's.
+            l.members.sort_by(|a, b| a.reaction.cmp(&b.reaction));
             let order = loop_map::loop_order(&l.members);
             l.members = order.iter().map(|&k| l.members[k].clone()).collect();
         }
