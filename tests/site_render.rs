@@ -2127,3 +2127,30 @@ fn iml1515_site_links_resolve_and_every_loop_has_its_page_and_map() {
         assert_eq!(drawn, members, "{}", l.id);
     }
 }
+
+#[test]
+fn an_unfinished_loop_analysis_shows_its_error() {
+    let tmp = tempfile::tempdir().unwrap();
+    let mut report = fixture();
+    let loops = report.loops.as_mut().unwrap();
+    loops.error = Some("the LP solver gave up <b>here</b>".into());
+    loops.loops.clear();
+    loops.capable.clear();
+    for r in &mut report.reactions {
+        r.loop_capable = None;
+        r.loops.clear();
+    }
+    let out = tmp.path().join("site");
+    render(&report, None, &out).unwrap();
+    let index = text_of(&fs::read_to_string(out.join("loops/index.html")).unwrap());
+    assert!(
+        index.contains(
+            "▲ The analysis did not finish. the LP solver gave up &lt;b&gt;here&lt;&#x2f;b&gt;"
+        ),
+        "{index}"
+    );
+    assert!(index.contains("Loops (0)"));
+    assert!(!index.contains("No internal loops"), "not a clean bill");
+    let hat = text_of(&fs::read_to_string(out.join("reactions/HAT.html")).unwrap());
+    assert!(hat.contains("Loops not known (the loop analysis did not finish)"));
+}
