@@ -173,8 +173,175 @@ fn energy_term(
     }
 }
 
-/// 4 reactions, 6 metabolites in 2 compartments, one finding per severity,
-/// one note with raw HTML, and ids full of HTML and path characters.
+fn loop_member(
+    id: &str,
+    name: &str,
+    coefficient: f64,
+    drg0_kj: Option<(f64, f64)>,
+    participants: &[(&str, f64)],
+) -> LoopMemberView {
+    LoopMemberView {
+        reaction: id.into(),
+        slug: slug(id),
+        name: name.into(),
+        equation: format!("equation of {id}"),
+        coefficient,
+        drg0_kj: drg0_kj.map(|(v, _)| v),
+        sigma_kj: drg0_kj.map(|(_, s)| s),
+        participants: participants
+            .iter()
+            .map(|&(m, c)| participant(m, m, c))
+            .collect(),
+    }
+}
+
+/// σ of ΔrG'° of the fixture's reactions (invented, as above).
+const HAT_DRG: (f64, f64) = (5.3245, 0.8485);
+const HOSTILE_DRG: (f64, f64) = (12.5, 2.0);
+
+/// Two loops over the fixture's reactions. Their participants are invented
+/// to chain into cycles (they are not the reactions' equations):
+/// loop-10: HAT turns ADP + Pi into the hostile metabolite, the hostile
+/// reaction run backward turns that into ATP, ATPH hydrolyses it again;
+/// its ΔrG'° do not add up to zero. loop-2 has UNK, which lacks ΔrG'°.
+/// Listed out of loop order, and loop-10 before loop-2, as analysis might.
+fn loops_view() -> LoopsView {
+    let constraint =
+        |reaction: &str, forbid: &str, breaks: Option<bool>, still: &[&str]| ConstraintView {
+            reaction: reaction.into(),
+            slug: slug(reaction),
+            forbid: forbid.into(),
+            dg_min_kj: 2.5,
+            basis: "range".into(),
+            breaks_loop: breaks,
+            still_looping: still.iter().map(|s| s.to_string()).collect(),
+        };
+    let loop10 = LoopView {
+        id: "loop-10".into(),
+        members: vec![
+            loop_member(
+                "ATPH",
+                "ATP hydrolysis",
+                1.0,
+                Some((ATP_HYDROLYSIS_DRG, 0.5)),
+                &[("atp_c", -1.0), ("adp_c", 1.0), ("pi_c", 1.0)],
+            ),
+            loop_member(
+                HOSTILE_REACTION,
+                "<b>bold</b> & \"quoted\"",
+                -1.0,
+                Some(HOSTILE_DRG),
+                &[("atp_c", -1.0), (HOSTILE_METABOLITE, 1.0)],
+            ),
+            loop_member(
+                "HAT",
+                "acid–proton symport",
+                1.0,
+                Some(HAT_DRG),
+                &[("adp_c", -1.0), ("pi_c", -1.0), (HOSTILE_METABOLITE, 1.0)],
+            ),
+        ],
+        metabolites: vec![
+            "adp_c".into(),
+            "atp_c".into(),
+            "pi_c".into(),
+            HOSTILE_METABOLITE.into(),
+        ],
+        reversible: false,
+        verified: true,
+        // −36.0353 + 12.5 × (−1) + 5.3245 = −43.2108; σ = √(0.5² + 2² + 0.8485²).
+        drg0_sum_kj: Some(ATP_HYDROLYSIS_DRG - HOSTILE_DRG.0 + HAT_DRG.0),
+        sigma_kj: Some((0.25f64 + 4.0 + 0.8485 * 0.8485).sqrt()),
+        members_without_data: vec![],
+        inconsistent: true,
+        constrain: Some(constraint("HAT", "forward", Some(true), &[])),
+        constrain_reversed: None,
+    };
+    let loop2 = LoopView {
+        id: "loop-2".into(),
+        members: vec![
+            loop_member(
+                "HAT",
+                "acid–proton symport",
+                -1.0,
+                Some(HAT_DRG),
+                &[(HOSTILE_METABOLITE, -1.0), ("pi_c", 1.0)],
+            ),
+            loop_member(
+                "UNK",
+                "Unknown energy",
+                1.0,
+                None,
+                &[(HOSTILE_METABOLITE, -1.0), ("pi_c", 1.0)],
+            ),
+        ],
+        metabolites: vec!["pi_c".into(), HOSTILE_METABOLITE.into()],
+        reversible: false,
+        verified: false,
+        drg0_sum_kj: None,
+        sigma_kj: None,
+        members_without_data: vec!["UNK".into()],
+        inconsistent: false,
+        constrain: Some(constraint("HAT", "backward", Some(false), &["UNK"])),
+        constrain_reversed: None,
+    };
+    LoopsView {
+        error: None,
+        shut_reactions: 3,
+        relaxed_bounds: vec![RelaxedBoundView {
+            reaction: "ATPH".into(),
+            slug: slug("ATPH"),
+            lower_bound: 2.0,
+            upper_bound: 1000.0,
+            relaxed_lower_bound: 0.0,
+            relaxed_upper_bound: 1000.0,
+        }],
+        reactions_after_pruning: 4,
+        pruned_reactions: 7,
+        capable: [
+            ("UNK", true, false),
+            ("ATPH", true, false),
+            ("HAT", true, true),
+            (HOSTILE_REACTION, false, true),
+        ]
+        .iter()
+        .map(|&(r, forward, backward)| CapableView {
+            reaction: r.into(),
+            slug: slug(r),
+            forward,
+            backward,
+        })
+        .collect(),
+        loops: vec![loop10, loop2],
+        truncated: false,
+        limit: Some(5000),
+        uncovered: vec![],
+        energy_cycles: vec![
+            EnergyCycleView {
+                currency: "atp".into(),
+                compartment: "c".into(),
+                equation: "atp_c -> adp_c + pi_c".into(),
+                cycle_exists: true,
+                example: vec![
+                    loop_member("HAT", "acid–proton symport", 1.0, Some(HAT_DRG), &[]),
+                    loop_member(HOSTILE_REACTION, "hostile", -1.0, Some(HOSTILE_DRG), &[]),
+                ],
+            },
+            EnergyCycleView {
+                currency: "nadh".into(),
+                compartment: "c".into(),
+                equation: "nadh_c -> nad_c + h_c".into(),
+                cycle_exists: false,
+                example: vec![],
+            },
+        ],
+        not_testable: vec!["gtp".into()],
+    }
+}
+
+/// 4 reactions, 6 metabolites in 2 compartments, findings of every
+/// severity (three about loops), one note with raw HTML, two loops, and ids
+/// full of HTML and path characters.
 fn fixture() -> Report {
     let atph = ReactionView {
         id: "ATPH".into(),
@@ -210,8 +377,8 @@ fn fixture() -> Report {
         missing_reasons: vec![],
         energy_terms: vec![],
         transport: None,
-        loop_capable: None,
-        loops: vec![],
+        loop_capable: Some("forward".into()),
+        loops: vec!["loop-10".into()],
     };
     let hostile = ReactionView {
         id: HOSTILE_REACTION.into(),
@@ -242,8 +409,8 @@ fn fixture() -> Report {
         missing_reasons: vec![],
         energy_terms: vec![],
         transport: None,
-        loop_capable: None,
-        loops: vec![],
+        loop_capable: Some("backward".into()),
+        loops: vec!["loop-10".into()],
     };
     let unknown = ReactionView {
         id: "UNK".into(),
@@ -271,8 +438,8 @@ fn fixture() -> Report {
         missing_reasons: vec!["pi_c: species data lack ΔfH° away from 298.15 K".into()],
         energy_terms: vec![],
         transport: None,
-        loop_capable: None,
-        loops: vec![],
+        loop_capable: Some("forward".into()),
+        loops: vec!["loop-2".into()],
     };
     // Symport of the acid with a proton into the cytosol. Terms in the
     // report's order (products first); the page lists the consumed first.
@@ -317,8 +484,8 @@ fn fixture() -> Report {
             electrical_term_kj: 9.6485,
             reference_independent: false,
         }),
-        loop_capable: None,
-        loops: vec![],
+        loop_capable: Some("both".into()),
+        loops: vec!["loop-2".into(), "loop-10".into()],
     };
     let mut acid_p = metabolite("ha_p", "weak acid", &["HAT"], &[]);
     acid_p.compartment = "p".into();
@@ -370,6 +537,27 @@ fn fixture() -> Report {
             None,
             "NOTE-ONLY-MESSAGE uses the default range.",
         ),
+        finding(
+            "internal-loop",
+            Severity::Warning,
+            &["loop-10", "HAT", HOSTILE_REACTION, "ATPH"],
+            None,
+            "LOOP-10-MESSAGE: 3 reactions form a loop.",
+        ),
+        finding(
+            "inconsistent-cycle-energy",
+            Severity::Error,
+            &["loop-10", "HAT", HOSTILE_REACTION, "ATPH"],
+            None,
+            "ΔrG'° around loop-10 adds up to −43.21 instead of 0.",
+        ),
+        finding(
+            "energy-generating-cycle",
+            Severity::Error,
+            &["atp in c", "HAT", HOSTILE_REACTION],
+            None,
+            "the model regenerates atp in c from nothing.",
+        ),
     ];
     Report {
         schema_version: REPORT_SCHEMA_VERSION,
@@ -398,14 +586,17 @@ fn fixture() -> Report {
             metabolites: 6,
             compartments: 2,
             scenarios: 1,
-            errors: 1,
-            warnings: 1,
+            errors: 3,
+            warnings: 2,
             notes: 1,
             reactions_with_energy: 3,
             metabolites_with_energy: 5,
             by_kind: BTreeMap::from([
                 ("default-concentration".to_string(), 1),
                 ("direction-contradiction".to_string(), 1),
+                ("energy-generating-cycle".to_string(), 1),
+                ("inconsistent-cycle-energy".to_string(), 1),
+                ("internal-loop".to_string(), 1),
                 ("unbalanced-reaction".to_string(), 1),
             ]),
             checks: vec![CheckInfo {
@@ -463,7 +654,7 @@ fn fixture() -> Report {
                        ![remote picture](https://example.org/pic.png)\n"
                 .into(),
         }],
-        loops: None,
+        loops: Some(loops_view()),
     }
 }
 
@@ -548,6 +739,9 @@ fn all_expected_files_exist_and_nothing_else() {
         "metabolites/pi_c.html",
         "notes/index.html",
         "notes/review.html",
+        "loops/index.html",
+        "loops/loop-2.html",
+        "loops/loop-10.html",
     ]
     .iter()
     .map(|s| s.to_string())
@@ -961,6 +1155,15 @@ fn output_is_byte_identical_across_renders_and_input_orders() {
     shuffled.reactions.reverse();
     shuffled.metabolites.reverse();
     shuffled.findings.reverse();
+    let loops = shuffled.loops.as_mut().unwrap();
+    loops.loops.reverse();
+    loops.capable.reverse();
+    for l in &mut loops.loops {
+        l.members.reverse();
+    }
+    for r in &mut shuffled.reactions {
+        r.loops.reverse();
+    }
     render(&shuffled, None, &b).unwrap();
     let (ta, mut tb) = (read_tree(&a), read_tree(&b));
     // report.json mirrors the report as given, so only it may differ.
@@ -1041,11 +1244,14 @@ fn text_of(html: &str) -> String {
     out.split_whitespace().collect::<Vec<_>>().join(" ")
 }
 
-/// The rows of the first `<table class="…">` whose class list is `class`,
+/// The rows of the first `<table class="…" …>` whose class list is `class`,
 /// each as the texts of its cells.
 fn table_rows(html: &str, class: &str) -> Vec<Vec<String>> {
+    let open = format!("<table class=\"{class}\"");
     let start = html
-        .find(&format!("<table class=\"{class}\">"))
+        .match_indices(&open)
+        .map(|(i, _)| i)
+        .find(|&i| matches!(html.as_bytes()[i + open.len()], b'>' | b' '))
         .unwrap_or_else(|| panic!("no table {class}"));
     let table = &html[start..start + html[start..].find("</table>").unwrap()];
     table
@@ -1265,14 +1471,17 @@ fn svg_attributes_never_carry_model_strings() {
                         .all(|c| c.is_ascii_alphanumeric() || " .,:;#()/-".contains(c)),
                     "{name}: <{tag} {attr}={value:?}>"
                 );
-                for model in ["HA", "base", "plasm", "ha_p", "R_", "ATPH", "MgA"] {
+                for model in [
+                    "HA", "base", "plasm", "ha_p", "R_", "ATPH", "MgA", "UNK", "adp_c", "M_",
+                ] {
                     assert!(!value.contains(model), "{name}: <{tag} {attr}={value:?}>");
                 }
             }
         }
     }
-    // Range bars on 3 reaction pages and the one species chart.
-    assert_eq!(charts, 4);
+    // Range bars on 3 reaction pages, the one species chart and the cycle
+    // maps of the two loops.
+    assert_eq!(charts, 6);
 }
 
 #[test]
@@ -1407,9 +1616,10 @@ fn render_demo(out: &Path) -> Report {
 
 #[test]
 fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
+    use gibbsite::site::format::energy;
     let tmp = tempfile::tempdir().unwrap();
     let out = tmp.path().join("site");
-    render_demo(&out);
+    let report = render_demo(&out);
     let tree = read_tree(&out);
     check_links(&tree);
 
@@ -1439,6 +1649,50 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
          range over 1 µM … 10 mM unless the metabolite has its own range, and counts a direction \
          as comfortably feasible only with a driving force of at least 1.00 kJ/mol."
     ));
+
+    // The demo's one loop (PYK and PEPS, each other's reverse): its subject
+    // links to its page, the loop index lists it with the report's numbers.
+    assert!(index.contains("<a href=\"loops/loop-1.html\">loop-1</a>"));
+    let view = &report
+        .loops
+        .as_ref()
+        .expect("the demo analyses loops")
+        .loops;
+    assert_eq!(view.len(), 1);
+    let (sum, sigma) = (view[0].drg0_sum_kj.unwrap(), view[0].sigma_kj.unwrap());
+    let loops = String::from_utf8(tree["loops/index.html"].clone()).unwrap();
+    let rows = table_rows(&loops, "data loops");
+    assert_eq!(rows.len(), 2);
+    assert_eq!(
+        rows[1][..5],
+        [
+            "loop-1",
+            "2",
+            "PEPS forward, PYK forward",
+            &format!("{} ± {}", energy(sum), energy(sigma)),
+            "✔ adds up to zero",
+        ]
+    );
+    // Both ΔrG'° are sums of the same formation energies with opposite
+    // signs, so around the loop they cancel (common practice: Σ ν·ΔfG'°
+    // over a cycle telescopes to zero).
+    assert_eq!(energy(sum), "0.00");
+    assert!(text_of(&loops).contains("Loop-capable reactions 2"));
+    let page = String::from_utf8(tree["loops/loop-1.html"].clone()).unwrap();
+    let svg = svg_block(&page, "loop-map");
+    // Drawn from the first by id.
+    assert_eq!(svg_texts(svg, "node-id"), ["PEPS", "PYK"]);
+    assert_eq!(svg.matches("class=\"arrowhead\"").count(), 2);
+    // PYK makes pyruvate and ATP, which PEPS uses, and PEPS gives back
+    // PEP, ADP and H⁺ (their equations in projects/lakeside).
+    assert!(
+        svg.contains("<title>PYK → PEPS: passes atp_c, pyr_c</title>"),
+        "{svg}"
+    );
+    assert!(
+        svg.contains("<title>PEPS → PYK: passes adp_c, h_c, pep_c</title>"),
+        "{svg}"
+    );
 }
 
 #[test]
@@ -1483,4 +1737,420 @@ fn demo_pages_show_transport_terms_and_species() {
     assert!(!glc.contains("species-chart"));
     assert!(text_of(&glc)
         .contains("One species makes up practically the whole reactant from pH 4 to 10"));
+}
+
+// ---------------------------------------------------------------------------
+// Internal loops and energy-generating cycles.
+
+/// Every `<text class="class" …>content</text>` of an SVG block, in order.
+fn svg_texts(svg: &str, class: &str) -> Vec<String> {
+    let open = format!("class=\"{class}\"");
+    svg.split("<text ")
+        .skip(1)
+        .filter(|t| t[..t.find('>').unwrap()].contains(&open))
+        .map(|t| {
+            t[t.find('>').unwrap() + 1..t.find("</text>").unwrap()]
+                .trim()
+                .to_string()
+        })
+        .collect()
+}
+
+/// The numbers of a path's `d` after `M`/`L` (x, y pairs), in order.
+fn path_points(d: &str) -> Vec<(f64, f64)> {
+    d.split(['M', 'L', 'Z'])
+        .filter(|p| !p.trim().is_empty())
+        .map(|p| {
+            let (x, y) = p.trim().split_once(',').unwrap();
+            (x.parse().unwrap(), y.parse().unwrap())
+        })
+        .collect()
+}
+
+#[test]
+fn loop_index_lists_every_loop_with_its_numbers() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let index = fs::read_to_string(out.join("loops/index.html")).unwrap();
+    let text = text_of(&index);
+    assert!(
+        text.contains(
+            "Loops 2: 1 with inconsistent ΔrG′°, 1 with incomplete data \
+             Loop-capable reactions 4 Energy-generating cycles 1 found in 2 tests"
+        ),
+        "{text}"
+    );
+    // What was done to close the network.
+    assert!(text.contains("Boundary reactions shut 3 Bounds relaxed to include zero 1"));
+    assert!(text.contains("Removed by dead-end pruning 7 reactions, 4 left"));
+    assert_eq!(
+        table_rows(&index, "data relaxed")[1..],
+        [["ATPH", "[2, 1000]", "[0, 1000]"]]
+    );
+    // Loop-capable reactions with their directions.
+    assert!(text.contains("Loop-capable reactions (4) 4 reactions can carry flux"));
+    assert!(text.contains("HAT both directions"));
+    assert!(text.contains("UNK forward"));
+    assert!(text.contains("R_&lt;b&gt;&amp;&quot;&#x27;..&#x2f;x backward"));
+
+    // loop-2 before loop-10 (numbers compare as numbers); members in the
+    // order they pass metabolites on (ATPH → HAT → the hostile reaction,
+    // though listed ATPH, hostile, HAT). Σ coefficient × ΔrG'° of loop-10:
+    // −36.0353 − 12.5 + 5.3245 = −43.2108, σ = √(0.5² + 2² + 0.8485²) = 2.229.
+    let hostile = "R_&lt;b&gt;&amp;&quot;&#x27;..&#x2f;x";
+    assert_eq!(
+        table_rows(&index, "data loops")[1..],
+        [
+            [
+                "loop-2 not verified",
+                "2",
+                "HAT backward, UNK forward",
+                "—",
+                "○ incomplete data",
+                "forbid HAT backward ▲ does not break it alone",
+            ],
+            [
+                "loop-10",
+                "3",
+                &format!("ATPH forward, HAT forward, {hostile} backward"),
+                "−43.21 ± 2.23",
+                "✖ inconsistent",
+                "forbid HAT forward ✔ breaks the loop",
+            ],
+        ]
+    );
+    assert!(index.contains("<a href=\"loop-2.html\">loop-2</a>"));
+    assert!(index.contains("<a href=\"loop-10.html\">loop-10</a>"));
+    // The list stays usable when long: sortable and filterable, no drawings.
+    assert!(index.contains("<table class=\"data loops\" data-filter data-sortable>"));
+    assert!(!index.contains("<svg"));
+
+    // Energy-generating-cycle tests: a found cycle by icon and word.
+    assert_eq!(
+        table_rows(&index, "data energy-cycles")[1..],
+        [
+            [
+                "atp",
+                "c",
+                "atp_c -&gt; adp_c + pi_c",
+                "✖ yes",
+                &format!("HAT forward, {hostile} backward"),
+            ],
+            ["nadh", "c", "nadh_c -&gt; nad_c + h_c", "✔ no", "—"],
+        ]
+    );
+    assert!(index.contains(&format!("id=\"cycle-{}\"", slug("atp in c"))));
+    assert!(text
+        .contains("Not testable, for want of a complete dissipation reaction in the model: gtp."));
+}
+
+#[test]
+fn loop_page_sums_the_energies_around_the_loop() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let page = fs::read_to_string(out.join("loops/loop-10.html")).unwrap();
+    let text = text_of(&page);
+    let hostile = "R_&lt;b&gt;&amp;&quot;&#x27;..&#x2f;x";
+    // Step, reaction, name, equation, direction, ΔrG'° ± σ, coefficient ×
+    // ΔrG'° (ATP hydrolysis: Alberty 2003, p. 220; the others invented).
+    let rows = table_rows(&page, "data members");
+    assert_eq!(
+        rows[1..4],
+        [
+            [
+                "1",
+                "ATPH",
+                "ATP hydrolysis",
+                "equation of ATPH",
+                "forward",
+                "−36.04 ± 0.50",
+                "−36.04"
+            ],
+            [
+                "2",
+                "HAT",
+                "acid–proton symport",
+                "equation of HAT",
+                "forward",
+                "5.32 ± 0.85",
+                "5.32"
+            ],
+            [
+                "3",
+                hostile,
+                "&lt;b&gt;bold&lt;&#x2f;b&gt; &amp; &quot;quoted&quot;",
+                &format!("equation of {hostile}"),
+                "backward",
+                "12.50 ± 2.00",
+                "−12.50"
+            ],
+        ]
+    );
+    assert_eq!(rows[4], ["Σ coefficient × ΔrG′°", "σ 2.23", "−43.21"]);
+    // The sum, what it means, and that it is an error here: 1.96 σ is
+    // 1.96 × 2.2293 = 4.37 kJ/mol, far less than |−43.21|.
+    assert!(
+        text.contains("Σ coefficient × ΔrG′° = −43.21 ± 2.23 kJ/mol ✖ inconsistent"),
+        "{text}"
+    );
+    assert!(text.contains("The reaction energies of this loop contradict each other."));
+    assert!(text.contains("farther from zero than 1.96 σ (4.37 kJ/mol)"));
+    // The suggested constraint.
+    assert!(text.contains(
+        "Forbid HAT running forward: it is the member least able to run the way the loop needs."
+    ));
+    assert!(text.contains("Smallest ΔG′ in the loop’s direction 2.50 kJ/mol — positive"));
+    assert!(text.contains("Basis ΔG′ over the allowed concentrations, widened by ±1.96 σ"));
+    assert!(text.contains("Breaks the loop ✔ breaks the loop"));
+    // Findings naming the loop, and no others.
+    assert!(text.contains("LOOP-10-MESSAGE"));
+    assert!(text.contains("around loop-10 adds up to −43.21 instead of 0."));
+    assert!(!text.contains("NOTE-ONLY-MESSAGE"));
+    assert!(!text.contains("regenerates atp"));
+
+    // A loop with a member lacking data has no sum, and says why.
+    let loop2 = text_of(&fs::read_to_string(out.join("loops/loop-2.html")).unwrap());
+    assert!(loop2.contains("○ incomplete data The sum cannot be formed: no ΔrG′° for UNK."));
+    assert!(
+        loop2.contains("Σ coefficient × ΔrG′° incomplete"),
+        "{loop2}"
+    );
+    assert!(loop2.contains("Not verified."));
+    assert!(loop2.contains("▲ does not break it alone — still looping with it forbidden: UNK"));
+    assert!(loop2.contains("Findings about this loop None."));
+}
+
+#[test]
+fn cycle_map_draws_each_member_once_with_arrowheads_in_loop_order() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let page = fs::read_to_string(out.join("loops/loop-10.html")).unwrap();
+    let svg = svg_block(&page, "loop-map");
+    // One box per member, in loop order, its direction in words.
+    assert_eq!(svg.matches("<g class=\"node ").count(), 3);
+    assert_eq!(svg.matches("<rect ").count(), 3);
+    // The svg crate escapes <, > and & in text (quotes need no escaping there).
+    let hostile = "R_&lt;b&gt;&amp;\"'../x";
+    assert_eq!(svg_texts(svg, "node-id"), ["ATPH", "HAT", hostile]);
+    assert_eq!(
+        svg_texts(svg, "node-way"),
+        ["1 · forward", "2 · forward", "3 · backward"]
+    );
+    assert!(svg.contains("<g class=\"node backward\">"));
+    // One arrow per step, each naming what passes on.
+    assert_eq!(svg.matches("class=\"arrowhead\"").count(), 3);
+    assert!(
+        svg.contains("<title>ATPH → HAT: passes adp_c, pi_c</title>"),
+        "{svg}"
+    );
+    assert!(svg.contains(&format!(
+        "<title>HAT → {hostile}: passes M_&lt;b&gt;&amp;\"'../evil</title>"
+    )));
+    assert!(svg.contains(&format!("<title>{hostile} → ATPH: passes atp_c</title>")));
+    assert!(
+        !svg.contains("unlinked"),
+        "every neighbour passes something on"
+    );
+
+    // Each arrowhead's tip lies at the next box, not at the one it leaves:
+    // the arrows run from step k to step k + 1 (and from the last to the first).
+    let attrs = svg_attributes(svg);
+    let centres: Vec<(f64, f64)> = attrs
+        .iter()
+        .filter(|(tag, attr, _)| tag == "rect" && attr == "x")
+        .zip(
+            attrs
+                .iter()
+                .filter(|(tag, attr, _)| tag == "rect" && attr == "y"),
+        )
+        .map(|((_, _, x), (_, _, y))| {
+            // Boxes are 132 × 38 up to ten members.
+            (
+                x.parse::<f64>().unwrap() + 66.0,
+                y.parse::<f64>().unwrap() + 19.0,
+            )
+        })
+        .collect();
+    let tips: Vec<(f64, f64)> = attrs
+        .windows(2)
+        .filter(|w| w[0].2 == "arrowhead" && w[1].1 == "d")
+        .map(|w| path_points(&w[1].2)[0])
+        .collect();
+    assert_eq!((centres.len(), tips.len()), (3, 3));
+    let distance =
+        |a: (f64, f64), b: (f64, f64)| ((a.0 - b.0).powi(2) + (a.1 - b.1).powi(2)).sqrt();
+    for k in 0..3 {
+        let (from, to) = (centres[k], centres[(k + 1) % 3]);
+        assert!(
+            distance(tips[k], to) < distance(tips[k], from),
+            "arrow {k} points back: tip {:?}, boxes {from:?} → {to:?}",
+            tips[k]
+        );
+    }
+    // The two-member loop: two boxes, two arrows.
+    let loop2 = fs::read_to_string(out.join("loops/loop-2.html")).unwrap();
+    let svg2 = svg_block(&loop2, "loop-map");
+    assert_eq!(svg2.matches("<g class=\"node ").count(), 2);
+    assert_eq!(svg2.matches("class=\"arrowhead\"").count(), 2);
+}
+
+#[test]
+fn finding_subjects_link_to_loop_pages_and_reactions_name_their_loops() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render_fixture(&out);
+    let tree = read_tree(&out);
+    check_links(&tree);
+    let findings = String::from_utf8(tree["findings.html"].clone()).unwrap();
+    assert_eq!(
+        findings
+            .matches("<a href=\"loops/loop-10.html\">loop-10</a>")
+            .count(),
+        2
+    );
+    assert!(findings.contains(&format!(
+        "<a href=\"loops/index.html#cycle-{}\">atp in c</a>",
+        slug("atp in c")
+    )));
+    // An id without a page stays plain text.
+    assert!(findings.contains("<code>loop-1</code>"));
+    let index = String::from_utf8(tree["index.html"].clone()).unwrap();
+    assert!(index.contains("<a href=\"loops/loop-10.html\">loop-10</a>"));
+    // Reaction pages: the directions it can loop in and its loops.
+    let hat = String::from_utf8(tree["reactions/HAT.html"].clone()).unwrap();
+    assert!(text_of(&hat).contains(
+        "Loops can carry flux in both directions with every boundary reaction shut; \
+         member of loop-2, loop-10"
+    ));
+    assert!(hat.contains("<a href=\"../loops/loop-2.html\">loop-2</a>"));
+    let unk = text_of(&String::from_utf8(tree["reactions/UNK.html"].clone()).unwrap());
+    assert!(unk.contains(
+        "Loops can carry flux forward with every boundary reaction shut; member of loop-2"
+    ));
+    // "Loops" is in the navigation of every page.
+    for (name, html) in html_pages(&tree) {
+        assert!(html.contains("loops/index.html\""), "{name}");
+    }
+}
+
+#[test]
+fn switched_off_loop_analysis_is_stated_and_makes_no_loop_pages() {
+    let tmp = tempfile::tempdir().unwrap();
+    let mut report = fixture();
+    report.loops = None;
+    for r in &mut report.reactions {
+        r.loop_capable = None;
+        r.loops.clear();
+    }
+    let out = tmp.path().join("site");
+    render(&report, None, &out).unwrap();
+    let tree = read_tree(&out);
+    check_links(&tree);
+    let loop_files: Vec<&String> = tree.keys().filter(|k| k.starts_with("loops/")).collect();
+    assert_eq!(loop_files, ["loops/index.html"]);
+    let index = text_of(&String::from_utf8(tree["loops/index.html"].clone()).unwrap());
+    assert!(index.contains("The loop analysis was switched off for this report"));
+    // Subjects naming loops now have no page.
+    let findings = String::from_utf8(tree["findings.html"].clone()).unwrap();
+    assert!(findings.contains("<code>loop-10</code>"));
+    assert!(findings.contains("<code>atp in c</code>"));
+    let hat = String::from_utf8(tree["reactions/HAT.html"].clone()).unwrap();
+    assert!(!hat.contains("<dt>Loops</dt>"));
+}
+
+// ---------------------------------------------------------------------------
+// A genome-scale model: iML1515 (Monk et al., Nat. Biotechnol. 35 (2017)
+// 904), from ../shared/models or `$GIBBSITE_MODELS_DIR`, skipped with a
+// visible message when absent.
+
+fn shared_model_path(file: &str) -> Option<PathBuf> {
+    let dir = match std::env::var_os("GIBBSITE_MODELS_DIR") {
+        Some(dir) => PathBuf::from(dir),
+        None => Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models"),
+    };
+    let path = dir.join(file);
+    if !path.is_file() {
+        // Past the harness's capture, so the skip shows in every run.
+        use std::io::Write;
+        let _ = writeln!(
+            std::io::stderr(),
+            "skipped: {} not found (set GIBBSITE_MODELS_DIR)",
+            path.display()
+        );
+        return None;
+    }
+    Some(path)
+}
+
+#[test]
+fn iml1515_site_links_resolve_and_every_loop_has_its_page_and_map() {
+    let Some(path) = shared_model_path("iML1515.xml.gz") else {
+        return;
+    };
+    let report = gibbsite::Project::load(&path)
+        .expect("iML1515 loads")
+        .analyse();
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    render(&report, None, &out).expect("iML1515 renders");
+    let tree = read_tree(&out);
+    check_links(&tree);
+    let view = report
+        .loops
+        .as_ref()
+        .expect("loops are analysed by default");
+    assert!(!view.loops.is_empty(), "iML1515 has internal loops");
+    let index = String::from_utf8(tree["loops/index.html"].clone()).unwrap();
+    assert_eq!(table_rows(&index, "data loops").len(), 1 + view.loops.len());
+    for l in &view.loops {
+        let page = String::from_utf8(tree[&format!("loops/{}.html", slug(&l.id))].clone()).unwrap();
+        let svg = svg_block(&page, "loop-map");
+        assert_eq!(
+            svg.matches("<g class=\"node ").count(),
+            l.members.len(),
+            "{}",
+            l.id
+        );
+        assert_eq!(
+            svg.matches("class=\"arrowhead\"").count(),
+            l.members.len(),
+            "{}",
+            l.id
+        );
+        let mut drawn = svg_texts(svg, "node-id");
+        let mut members: Vec<String> = l.members.iter().map(|m| m.reaction.clone()).collect();
+        drawn.sort();
+        members.sort();
+        assert_eq!(drawn, members, "{}", l.id);
+    }
+}
+
+#[test]
+fn an_unfinished_loop_analysis_shows_its_error() {
+    let tmp = tempfile::tempdir().unwrap();
+    let mut report = fixture();
+    let loops = report.loops.as_mut().unwrap();
+    loops.error = Some("the LP solver gave up <b>here</b>".into());
+    loops.loops.clear();
+    loops.capable.clear();
+    for r in &mut report.reactions {
+        r.loop_capable = None;
+        r.loops.clear();
+    }
+    let out = tmp.path().join("site");
+    render(&report, None, &out).unwrap();
+    let index = text_of(&fs::read_to_string(out.join("loops/index.html")).unwrap());
+    assert!(
+        index.contains(
+            "▲ The analysis did not finish. the LP solver gave up &lt;b&gt;here&lt;&#x2f;b&gt;"
+        ),
+        "{index}"
+    );
+    assert!(index.contains("Loops (0)"));
+    assert!(!index.contains("No internal loops"), "not a clean bill");
+    let hat = text_of(&fs::read_to_string(out.join("reactions/HAT.html")).unwrap());
+    assert!(hat.contains("Loops not known (the loop analysis did not finish)"));
 }

@@ -16,10 +16,12 @@
 //! reactions/index.html  reactions/<slug>.html
 //! metabolites/index.html  metabolites/<slug>.html
 //! notes/index.html  notes/<slug>.html      (when the project has notes)
+//! loops/index.html  loops/<slug>.html      (the loop pages: one per loop)
 //! ```
 
 pub mod derived;
 pub mod format;
+pub mod loop_map;
 pub mod markdown;
 pub mod species_chart;
 pub mod svg;
@@ -31,6 +33,7 @@ use crate::report::{Finding, Report, Severity};
 use minijinja::value::Value;
 use minijinja::{context, AutoEscape, Environment, UndefinedBehavior};
 use serde::Serialize;
+use std::borrow::Cow;
 use std::collections::{BTreeMap, BTreeSet};
 use std::path::Path;
 use theme::Theme;
@@ -75,6 +78,7 @@ fn environment(theme: &Theme) -> Result<Environment<'static>, Error> {
     env.set_trim_blocks(true);
     env.set_lstrip_blocks(true);
     format::register(&mut env);
+    env.add_filter("direction", loop_map::direction_words);
     for (name, source) in theme.templates()? {
         env.add_template_owned(name.to_owned(), source.to_owned())
             .map_err(|e| template_error(theme, name, &e))?;
@@ -159,13 +163,48 @@ fn sorted_report(report: &Report) -> Report {
             .scenario_verdicts
             .sort_by(|a, b| a.scenario.cmp(&b.scenario));
         reaction.missing_data.sort();
+        reaction
+            .loops
+            .sort_by(|a, b| natural_key(a).cmp(&natural_key(b)));
+    }
+    if let Some(loops) = &mut r.loops {
+        loops
+            .loops
+            .sort_by(|a, b| natural_key(&a.id).cmp(&natural_key(&b.id)));
+        for l in &mut loops.loops {
+            // Members in the order they pass metabolites on, as the cycle
+            // map draws them, so table and map read the same way round;
+            // sorted first so the order does not depend on the input's.
+            l.members.sort_by(|a, b| a.reaction.cmp(&b.reaction));
+            let order = loop_map::loop_order(&l.members);
+            l.members = order.iter().map(|&k| l.members[k].clone()).collect();
+        }
+        loops.capable.sort_by(|a, b| a.reaction.cmp(&b.reaction));
+        loops
+            .relaxed_bounds
+            .sort_by(|a, b| a.reaction.cmp(&b.reaction));
+        loops.uncovered.sort();
+        // Energy-cycle tests keep the analysis's order (ATP first).
     }
     r
 }
 
+/// `loop-2` before `loop-10`: a trailing number compares as a number.
+fn natural_key(id: &str) -> (&str, u64, &str) {
+    let digits = id.len() - id.trim_end_matches(|c: char| c.is_ascii_digit()).len();
+    let (stem, number) = id.split_at(id.len() - digits);
+    (stem, number.parse().unwrap_or(0), id)
+}
+
 /// Slugs become file names: they must be safe and distinct.
 fn check_slugs(report: &Report) -> Result<(), Error> {
-    let groups: [(&str, Vec<(&str, &str)>); 3] = [
+    let loop_slugs: Vec<(&str, String)> = report
+        .loops
+        .iter()
+        .flat_map(|l| &l.loops)
+        .map(|l| (l.id.as_str(), crate::slug::slug(&l.id)))
+        .collect();
+    let groups: [(&str, Vec<(&str, &str)>); 4] = [
         (
             "reaction",
             report
@@ -189,6 +228,10 @@ fn check_slugs(report: &Report) -> Result<(), Error> {
                 .iter()
                 .map(|n| (n.title.as_str(), n.slug.as_str()))
                 .collect(),
+        ),
+        (
+            "loop",
+            loop_slugs.iter().map(|(id, s)| (*id, s.as_str())).collect(),
         ),
     ];
     for (what, entries) in groups {
@@ -223,9 +266,11 @@ fn check_slugs(report: &Report) -> Result<(), Error> {
 #[derive(Serialize)]
 struct SubjectLink<'a> {
     id: &'a str,
-    /// "reaction", "metabolite" or "" when the id has no page (e.g. a loop).
+    /// "reaction", "metabolite", "loop", "energy-cycle" (a row of the loop
+    /// index) or "" when the id has no page.
     kind: &'static str,
-    slug: &'a str,
+    /// Page name, or for "energy-cycle" the row's anchor.
+    slug: Cow<'a, str>,
 }
 
 #[derive(Serialize)]
@@ -250,8 +295,11 @@ struct SiteIndex<'a> {
     /// Indices into `findings`, for every reaction / metabolite id.
     reaction_findings: BTreeMap<&'a str, Vec<usize>>,
     metabolite_findings: BTreeMap<&'a str, Vec<usize>>,
+    loop_findings: BTreeMap<&'a str, Vec<usize>>,
     reactions: BTreeMap<&'a str, EntityRef<'a>>,
     metabolites: BTreeMap<&'a str, EntityRef<'a>>,
+    /// Page name of every loop id.
+    loops: BTreeMap<&'a str, String>,
     /// Finding counts by severity slug, for every reaction id.
     reaction_counts: BTreeMap<&'a str, BTreeMap<&'static str, usize>>,
 }
@@ -283,6 +331,22 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
             )
         })
         .collect();
+    let loops: BTreeMap<&str, String> = report
+        .loops
+        .iter()
+        .flat_map(|l| &l.loops)
+        .map(|l| (l.id.as_str(), crate::slug::slug(&l.id)))
+        .collect();
+    // Subjects naming an energy-generating-cycle test ("atp in c") link to
+    // its row on the loop index.
+    let energy_cycles: BTreeSet<String> = report
+        .loops
+        .iter()
+        .flat_map(|l| &l.energy_cycles)
+        .map(|c| energy_cycle_subject(&c.currency, &c.compartment))
+        .collect();
+    let mut loop_findings: BTreeMap<&str, Vec<usize>> =
+        loops.keys().map(|id| (*id, Vec::new())).collect();
     let mut reaction_findings: BTreeMap<&str, Vec<usize>> =
         reactions.keys().map(|id| (*id, Vec::new())).collect();
     let mut metabolite_findings: BTreeMap<&str, Vec<usize>> =
@@ -313,7 +377,7 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
                 SubjectLink {
                     id,
                     kind: "reaction",
-                    slug: r.slug,
+                    slug: Cow::Borrowed(r.slug),
                 }
             } else if let Some(m) = metabolites.get(id.as_str()) {
                 if seen.insert(("m", id.as_str())) {
@@ -322,13 +386,28 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
                 SubjectLink {
                     id,
                     kind: "metabolite",
-                    slug: m.slug,
+                    slug: Cow::Borrowed(m.slug),
+                }
+            } else if let Some(slug) = loops.get(id.as_str()) {
+                if seen.insert(("l", id.as_str())) {
+                    loop_findings.entry(id).or_default().push(index);
+                }
+                SubjectLink {
+                    id,
+                    kind: "loop",
+                    slug: Cow::Owned(slug.clone()),
+                }
+            } else if energy_cycles.contains(id) {
+                SubjectLink {
+                    id,
+                    kind: "energy-cycle",
+                    slug: Cow::Owned(energy_cycle_anchor(id)),
                 }
             } else {
                 SubjectLink {
                     id,
                     kind: "",
-                    slug: "",
+                    slug: Cow::Borrowed(""),
                 }
             };
             links.push(link);
@@ -343,10 +422,23 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
         findings,
         reaction_findings,
         metabolite_findings,
+        loop_findings,
         reactions,
         metabolites,
+        loops,
         reaction_counts,
     }
+}
+
+/// How the energy-cycle check names a test among a finding's subjects.
+fn energy_cycle_subject(currency: &str, compartment: &str) -> String {
+    format!("{currency} in {compartment}")
+}
+
+/// Fragment id of an energy-cycle test's row on loops/index.html (the
+/// template builds the same with the `anchor` filter).
+fn energy_cycle_anchor(subject: &str) -> String {
+    format!("cycle-{}", crate::slug::slug(subject))
 }
 
 /// Every page of the site with its context.
@@ -492,6 +584,29 @@ fn pages(report: &Report) -> Vec<Page> {
             context! {
                 item => Value::from_serialize(note),
                 body => Value::from_safe_string(markdown::to_html(&note.markdown)),
+            },
+        ));
+    }
+    // Always written: it says so when the analysis was switched off.
+    out.push(page(
+        "loops.html",
+        "loops/index.html".into(),
+        "loops",
+        "Loops",
+        context! {},
+    ));
+    for l in report.loops.iter().flat_map(|l| &l.loops) {
+        let map = loop_map::loop_map(&l.id, &l.members);
+        out.push(page(
+            "loop.html",
+            format!("loops/{}.html", index.loops[l.id.as_str()]),
+            "loops",
+            &l.id,
+            context! {
+                item => Value::from_serialize(l),
+                findings => findings_of(index.loop_findings.get(l.id.as_str())),
+                cycle_map => map.as_ref().map(|m| Value::from_safe_string(m.svg.clone())),
+                not_on_arrows => map.map(|m| m.not_on_arrows),
             },
         ));
     }

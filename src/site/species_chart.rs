@@ -181,7 +181,7 @@ fn ph_number(ph: f64) -> String {
 }
 
 /// Shortens `label` to `max` characters with an ellipsis.
-fn shorten(label: &str, max: usize) -> String {
+pub(crate) fn shorten(label: &str, max: usize) -> String {
     if label.chars().count() <= max {
         label.to_string()
     } else {

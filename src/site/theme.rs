@@ -31,6 +31,8 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "metabolite.html",
     "notes.html",
     "note.html",
+    "loops.html",
+    "loop.html",
     "style.css",
     "table.js",
 ];
