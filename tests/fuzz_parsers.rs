@@ -13,6 +13,23 @@ fn demo_model() -> String {
     .unwrap()
 }
 
+fn e_coli_core_xml() -> &'static str {
+    static TEXT: std::sync::OnceLock<String> = std::sync::OnceLock::new();
+    TEXT.get_or_init(read_e_coli_core_xml)
+}
+
+fn read_e_coli_core_xml() -> String {
+    use std::io::Read;
+    let bytes =
+        std::fs::read(Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/data/e_coli_core.xml.gz"))
+            .unwrap();
+    let mut text = String::new();
+    flate2::read::GzDecoder::new(&bytes[..])
+        .read_to_string(&mut text)
+        .unwrap();
+    text
+}
+
 proptest! {
     #![proptest_config(ProptestConfig { cases: 300, .. ProptestConfig::default() })]
 
@@ -54,6 +71,24 @@ proptest! {
         let file = dir.path().join("model.yaml");
         std::fs::write(&file, mangled).unwrap();
         match Project::load(&file) {
+            Ok(_) => {}
+            Err(Error::Input(diagnostics)) => prop_assert!(!diagnostics.is_empty()),
+            Err(other) => prop_assert!(false, "unexpected error kind: {other}"),
+        }
+    }
+
+    /// The SBML reader on a published model with a slice cut out and random
+    /// text spliced in: a model or located diagnostics, never a panic.
+    #[test]
+    fn mangled_sbml_gives_diagnostics(start in 0usize..400_000, len in 0usize..300, insert in "\\PC{0,20}") {
+        let text = e_coli_core_xml();
+        let start = start.min(text.len());
+        let end = (start + len).min(text.len());
+        if !text.is_char_boundary(start) || !text.is_char_boundary(end) {
+            return Ok(());
+        }
+        let mangled = format!("{}{}{}", &text[..start], insert, &text[end..]);
+        match gibbsite::project::sbml::parse_sbml(&mangled, Path::new("mangled.xml")) {
             Ok(_) => {}
             Err(Error::Input(diagnostics)) => prop_assert!(!diagnostics.is_empty()),
             Err(other) => prop_assert!(false, "unexpected error kind: {other}"),
