@@ -27,15 +27,14 @@ fn e_coli_core_round_trips_through_yaml() {
     roundtrip(&Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/data/e_coli_core.xml.gz"));
 }
 
+mod common;
+
 /// The genome-scale models, when ../shared/models is present.
 #[test]
 fn shared_models_round_trip() {
-    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models");
-    if !dir.is_dir() {
-        eprintln!("skipped: {} not found", dir.display());
-        return;
-    }
     for name in ["iML1515.xml.gz", "Recon3D.xml.gz"] {
-        roundtrip(&dir.join(name));
+        if let Some(path) = common::shared_model_path(name) {
+            roundtrip(&path);
+        }
     }
 }

@@ -11,35 +11,10 @@
 
 use gibbsite::checks::balance;
 use gibbsite::model::{Model, Role};
-use gibbsite::project::sbml::read_sbml;
 use std::collections::BTreeMap;
-use std::path::{Path, PathBuf};
 
-/// `GIBBSITE_MODELS_DIR` when set (a checkout whose `shared/` is elsewhere),
-/// else `../shared/models` beside the repository.
-fn shared_model(file: &str) -> Option<Model> {
-    let dir = match std::env::var_os("GIBBSITE_MODELS_DIR") {
-        Some(dir) => PathBuf::from(dir),
-        None => Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models"),
-    };
-    if !dir.is_dir() {
-        visible("skipped: ../shared/models not found");
-        return None;
-    }
-    let path: PathBuf = dir.join(file);
-    if !path.is_file() {
-        visible(&format!("skipped: {} not found", path.display()));
-        return None;
-    }
-    Some(read_sbml(&path).unwrap_or_else(|e| panic!("{file} should import:\n{e}")))
-}
-
-/// Writes past the test harness's output capture (which only catches the
-/// print macros), so a skip shows in every `cargo test` run.
-fn visible(message: &str) {
-    use std::io::Write;
-    let _ = writeln!(std::io::stderr(), "{message}");
-}
+mod common;
+use common::shared_model;
 
 fn role_counts(m: &Model) -> BTreeMap<Role, usize> {
     let mut counts = BTreeMap::new();

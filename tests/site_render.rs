@@ -2066,24 +2066,8 @@ fn switched_off_loop_analysis_is_stated_and_makes_no_loop_pages() {
 // 904), from ../shared/models or `$GIBBSITE_MODELS_DIR`, skipped with a
 // visible message when absent.
 
-fn shared_model_path(file: &str) -> Option<PathBuf> {
-    let dir = match std::env::var_os("GIBBSITE_MODELS_DIR") {
-        Some(dir) => PathBuf::from(dir),
-        None => Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models"),
-    };
-    let path = dir.join(file);
-    if !path.is_file() {
-        // Past the harness's capture, so the skip shows in every run.
-        use std::io::Write;
-        let _ = writeln!(
-            std::io::stderr(),
-            "skipped: {} not found (set GIBBSITE_MODELS_DIR)",
-            path.display()
-        );
-        return None;
-    }
-    Some(path)
-}
+mod common;
+use common::shared_model_path;
 
 #[test]
 fn iml1515_site_links_resolve_and_every_loop_has_its_page_and_map() {

@@ -11,19 +11,7 @@ pub fn read_flux_csv(
     path: &Path,
     reaction_ids: &HashMap<String, usize>,
 ) -> Result<Vec<(usize, f64)>, Vec<Diagnostic>> {
-    let mut reader = match csv::ReaderBuilder::new()
-        .comment(Some(b'#'))
-        .trim(csv::Trim::All)
-        .from_path(path)
-    {
-        Ok(r) => r,
-        Err(e) => {
-            return Err(vec![Diagnostic::new(
-                path,
-                format!("cannot read flux table: {}", io_text(&e)),
-            )])
-        }
-    };
+    let mut reader = open_table(path)?;
     let headers = match reader.headers() {
         Ok(h) => h.clone(),
         Err(e) => return Err(vec![csv_error(path, &e)]),
@@ -74,6 +62,25 @@ pub fn read_flux_csv(
     } else {
         Err(problems)
     }
+}
+
+/// A CSV reader (TSV when the extension says so) that skips `#` comments
+/// and trims cells.
+fn open_table(path: &Path) -> Result<csv::Reader<std::fs::File>, Vec<Diagnostic>> {
+    let tab = path
+        .extension()
+        .is_some_and(|e| e.eq_ignore_ascii_case("tsv"));
+    csv::ReaderBuilder::new()
+        .delimiter(if tab { b'\t' } else { b',' })
+        .comment(Some(b'#'))
+        .trim(csv::Trim::All)
+        .from_path(path)
+        .map_err(|e| {
+            vec![Diagnostic::new(
+                path,
+                format!("cannot read table: {}", io_text(&e)),
+            )]
+        })
 }
 
 fn csv_error(path: &Path, e: &csv::Error) -> Diagnostic {
@@ -132,23 +139,7 @@ pub fn apply_side_table(
     path: &Path,
     model: &mut crate::model::Model,
 ) -> Result<(), Vec<Diagnostic>> {
-    let tab = path
-        .extension()
-        .is_some_and(|e| e.eq_ignore_ascii_case("tsv"));
-    let mut reader = match csv::ReaderBuilder::new()
-        .delimiter(if tab { b'\t' } else { b',' })
-        .comment(Some(b'#'))
-        .trim(csv::Trim::All)
-        .from_path(path)
-    {
-        Ok(r) => r,
-        Err(e) => {
-            return Err(vec![Diagnostic::new(
-                path,
-                format!("cannot read table: {}", io_text(&e)),
-            )])
-        }
-    };
+    let mut reader = open_table(path)?;
     let headers: Vec<String> = match reader.headers() {
         Ok(h) => h.iter().map(|c| c.to_lowercase()).collect(),
         Err(e) => return Err(vec![csv_error(path, &e)]),

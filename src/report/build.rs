@@ -243,16 +243,7 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                 slug: slugs[j].clone(),
                 name: r.name.clone(),
                 equation: equation_text(model, j),
-                participants: r
-                    .stoichiometry
-                    .iter()
-                    .map(|&(i, c)| ParticipantView {
-                        metabolite: model.metabolites[i].id.clone(),
-                        slug: metabolite_slugs[i].clone(),
-                        name: model.metabolites[i].name.clone(),
-                        coefficient: c,
-                    })
-                    .collect(),
+                participants: participant_views(model, j, &metabolite_slugs),
                 reversible: r.reversible,
                 lower_bound: r.lower_bound,
                 upper_bound: r.upper_bound,
@@ -335,6 +326,20 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
         .collect()
 }
 
+/// The participants of reaction `j`, linked to their metabolite pages.
+fn participant_views(model: &Model, j: usize, metabolite_slugs: &[String]) -> Vec<ParticipantView> {
+    model.reactions[j]
+        .stoichiometry
+        .iter()
+        .map(|&(i, c)| ParticipantView {
+            metabolite: model.metabolites[i].id.clone(),
+            slug: metabolite_slugs[i].clone(),
+            name: model.metabolites[i].name.clone(),
+            coefficient: c,
+        })
+        .collect()
+}
+
 fn found_loops<'a>(analysis: &'a Analysis) -> Option<&'a crate::loops::LoopAnalysis> {
     analysis.loops.as_ref()?.loops.as_ref().ok()
 }
@@ -391,16 +396,7 @@ fn member_view(
         coefficient: m.coefficient,
         drg0_kj: thermo.map(|t| t.drg0_kj),
         sigma_kj: thermo.map(|t| t.sigma_kj),
-        participants: model.reactions[m.index]
-            .stoichiometry
-            .iter()
-            .map(|&(i, c)| ParticipantView {
-                metabolite: model.metabolites[i].id.clone(),
-                slug: metabolite_slugs[i].clone(),
-                name: model.metabolites[i].name.clone(),
-                coefficient: c,
-            })
-            .collect(),
+        participants: participant_views(model, m.index, metabolite_slugs),
     }
 }
 
