@@ -17,6 +17,7 @@ mod energy;
 mod network;
 mod nullspace;
 mod prune;
+mod recheck;
 pub mod tolerance;
 
 pub use currency::{CurrencyOptions, DissipationTest};
