@@ -448,3 +448,18 @@ fn recon3d_rechecks_match_full_reruns() {
     };
     assert_rechecks_match_full_reruns(&model, 40);
 }
+
+// Opt-in (a minute in debug builds): every Recon3D loop checks back as a
+// steady-state, sign-feasible, elementary flux, and the loops cover the
+// whole loop-capable set (2409, see above).
+#[test]
+#[ignore]
+fn recon3d_loops_cover_the_set_and_check_back() {
+    let Some(model) = shared_model("Recon3D.xml.gz") else {
+        return;
+    };
+    let analysis = analyse_loops(&model, &LoopOptions::default()).unwrap();
+    assert_eq!(analysis.loop_capable.len(), 2409);
+    assert_loops_sound(&analysis);
+    visible(&format!("Recon3D: {} loops", analysis.loops.len()));
+}

@@ -88,28 +88,33 @@ pub fn find_loops(
     let metabolite_count = names.metabolites.len();
     let compressed = compress(metabolite_count, columns, capable);
     let merged = &compressed.merged;
+    // A reversible merged flux is split as u = p − n (p, n ≥ 0), both parts
+    // weighted: Σ weight·(p + n) is the L1 norm at any vertex (the two parts
+    // have opposite columns, so no basis holds both), and the LP keeps only
+    // the steady-state rows instead of two |u| rows per reversible column.
     let mut lp = LinearProgram::new(Sense::Minimise);
-    let mut vars: Vec<Var> = Vec::with_capacity(merged.len());
+    let mut parts: Vec<FluxParts> = Vec::with_capacity(merged.len());
     for column in merged {
         let weight: f64 = column.members.iter().map(|(_, f)| f.abs()).sum();
         let d = column.allowed;
-        let var = match (d.forward, d.backward) {
-            (true, true) => {
-                let u = lp.add_variable(0.0, f64::NEG_INFINITY, f64::INFINITY);
-                let a = lp.add_variable(weight, 0.0, f64::INFINITY);
-                lp.add_row(&[(a, 1.0), (u, -1.0)], Relation::GreaterOrEqual, 0.0);
-                lp.add_row(&[(a, 1.0), (u, 1.0)], Relation::GreaterOrEqual, 0.0);
-                u
-            }
-            (true, false) => lp.add_variable(weight, 0.0, f64::INFINITY),
-            _ => lp.add_variable(-weight, f64::NEG_INFINITY, 0.0),
-        };
-        vars.push(var);
+        parts.push(FluxParts {
+            forward: d
+                .forward
+                .then(|| lp.add_variable(weight, 0.0, f64::INFINITY)),
+            backward: d
+                .backward
+                .then(|| lp.add_variable(weight, 0.0, f64::INFINITY)),
+        });
     }
     let mut rows: Vec<Vec<(Var, f64)>> = vec![Vec::new(); metabolite_count];
-    for (column, &var) in merged.iter().zip(&vars) {
+    for (column, part) in merged.iter().zip(&parts) {
         for &(m, c) in &column.column {
-            rows[m].push((var, c));
+            if let Some(p) = part.forward {
+                rows[m].push((p, c));
+            }
+            if let Some(n) = part.backward {
+                rows[m].push((n, -c));
+            }
         }
     }
     for row in rows.iter().filter(|row| !row.is_empty()) {
@@ -149,9 +154,8 @@ pub fn find_loops(
                 .iter()
                 .zip(sessions.iter_mut())
                 .map(|(&target, session)| {
-                    let var = vars[target];
-                    let allowed = merged[target].allowed;
-                    scope.spawn(move || loop_through(session, var, allowed))
+                    let part = parts[target];
+                    scope.spawn(move || loop_through(session, part))
                 })
                 .collect();
             handles
@@ -171,9 +175,9 @@ pub fn find_loops(
             }
             let mut flux: Vec<(usize, f64)> = merged
                 .iter()
-                .zip(&vars)
-                .flat_map(|(column, var)| {
-                    let lambda = values[var.0];
+                .zip(&parts)
+                .flat_map(|(column, part)| {
+                    let lambda = part.value(&values);
                     column.members.iter().map(move |&(r, f)| (r, f * lambda))
                 })
                 .filter(|(_, v)| *v != 0.0)
@@ -211,22 +215,37 @@ const LOOP_WORKERS: usize = 2;
 /// LP values of a loop (none when the target has no loop) and LP solves.
 type TargetOutcome = (Option<Vec<f64>>, usize);
 
-/// One target: the L1-minimal loop with the merged flux fixed at +1, or
-/// else at −1. Returns the LP values (or none: no loop either way) and the
-/// number of LP solves.
-fn loop_through(
-    session: &mut LpSession,
-    var: Var,
-    allowed: Directions,
-) -> Result<TargetOutcome, LpError> {
+/// LP variables of a merged flux: its forward and backward parts.
+#[derive(Debug, Clone, Copy)]
+struct FluxParts {
+    forward: Option<Var>,
+    backward: Option<Var>,
+}
+
+impl FluxParts {
+    fn value(&self, values: &[f64]) -> f64 {
+        self.forward.map_or(0.0, |p| values[p.0]) - self.backward.map_or(0.0, |n| values[n.0])
+    }
+}
+
+/// One target: the L1-minimal loop with the merged flux at +1 (forward part
+/// fixed at 1, backward part at 0), or else at −1. Returns the LP values
+/// (or none: no loop either way) and the number of LP solves.
+fn loop_through(session: &mut LpSession, part: FluxParts) -> Result<TargetOutcome, LpError> {
     let mut solves = 0;
-    for sign in [1.0, -1.0] {
-        if !allowed.allows(sign) {
-            continue;
+    for (on, off) in [(part.forward, part.backward), (part.backward, part.forward)] {
+        let Some(on) = on else { continue };
+        if let Some(off) = off {
+            session.fix(off, 0.0)?;
+            solves += 1;
         }
-        let attempt = session.fix(var, sign).map(|s| s.values.clone());
-        session.release(var)?;
+        let attempt = session.fix(on, 1.0).map(|s| s.values.clone());
+        session.release(on)?;
         solves += 2;
+        if let Some(off) = off {
+            session.release(off)?;
+            solves += 1;
+        }
         match attempt {
             Ok(values) => return Ok((Some(values), solves)),
             Err(LpError::Infeasible) => continue,
