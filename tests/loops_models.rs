@@ -461,5 +461,10 @@ fn recon3d_loops_cover_the_set_and_check_back() {
     let analysis = analyse_loops(&model, &LoopOptions::default()).unwrap();
     assert_eq!(analysis.loop_capable.len(), 2409);
     assert_loops_sound(&analysis);
-    visible(&format!("Recon3D: {} loops", analysis.loops.len()));
+    visible(&format!(
+        "Recon3D: {} loops ({} without LP, {} LP solves)",
+        analysis.loops.len(),
+        analysis.stats.direct_loops,
+        analysis.stats.loop_lp_solves
+    ));
 }
