@@ -17,7 +17,8 @@
 //! opt-in (#[ignore]) test, since that takes thousands of LPs.
 
 use gibbsite::loops::{
-    analyse_loops, energy_generating_cycles, CurrencyOptions, LoopAnalysis, LoopOptions,
+    analyse_loops, assess_loop_energies, energy_generating_cycles, CurrencyOptions, LoopAnalysis,
+    LoopEnergyOptions, LoopOptions, StandardDeltaG,
 };
 use gibbsite::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
 use gibbsite::model::Model;
@@ -354,4 +355,116 @@ fn recon3d_loop_set_matches_flux_variability() {
     fva.sort();
     assert_eq!(fva.len(), 2409);
     assert_eq!(ours, fva);
+}
+
+/// Synthetic ΔrG'° (invented, test only): a fixed pattern by reaction index,
+/// so that every loop gets a suggested member to constrain.
+fn patterned_standard(model: &Model) -> Vec<Option<StandardDeltaG>> {
+    (0..model.reactions.len())
+        .map(|r| {
+            Some(StandardDeltaG {
+                value_kj: ((r * 37) % 101) as f64 - 50.0,
+                sigma_kj: 2.0,
+            })
+        })
+        .collect()
+}
+
+/// Each re-check of `assess_loop_energies` against the plain definition
+/// (common practice): forbid the direction in the model's own bounds and run
+/// the whole loop-capable analysis again; the loop members still capable in
+/// their loop direction must be exactly the ones the re-check reports.
+fn assert_rechecks_match_full_reruns(model: &Model, limit: usize) {
+    let analysis = analyse_loops(model, &LoopOptions::default()).unwrap();
+    let options = LoopEnergyOptions {
+        recheck_limit: Some(limit),
+        ..LoopEnergyOptions::default()
+    };
+    let energies =
+        assess_loop_energies(model, &analysis, &patterned_standard(model), &[], &options).unwrap();
+    let set_only = LoopOptions {
+        find_loops: false,
+        max_loops: None,
+    };
+    let mut compared = 0;
+    let mut broken = 0;
+    for (cycle, energy) in analysis.loops.iter().zip(&energies) {
+        for (suggestion, orientation) in
+            [(&energy.constrain, 1.0), (&energy.constrain_reversed, -1.0)]
+        {
+            let Some(suggestion) = suggestion else {
+                continue;
+            };
+            let Some(recheck) = &suggestion.rechecked else {
+                continue;
+            };
+            let mut constrained = model.clone();
+            let reaction = &mut constrained.reactions[suggestion.index];
+            if suggestion.forbid == "forward" {
+                reaction.upper_bound = 0.0;
+                reaction.lower_bound = reaction.lower_bound.min(0.0);
+            } else {
+                reaction.lower_bound = 0.0;
+                reaction.upper_bound = reaction.upper_bound.max(0.0);
+            }
+            let rerun = analyse_loops(&constrained, &set_only).unwrap();
+            let directions = rerun.capable_directions(model.reactions.len());
+            let expected: Vec<String> = cycle
+                .members
+                .iter()
+                .filter(|m| directions[m.index].allows(orientation * m.coefficient))
+                .map(|m| m.reaction.clone())
+                .collect();
+            assert_eq!(
+                recheck.still_looping, expected,
+                "{} {}",
+                cycle.id, suggestion.reaction
+            );
+            compared += 1;
+            broken += usize::from(recheck.breaks_loop);
+        }
+    }
+    assert!(compared > 0, "no re-check to compare");
+    visible(&format!(
+        "{}: {compared} re-checks agree ({broken} break their loop)",
+        model.id
+    ));
+}
+
+#[test]
+fn iml1515_rechecks_match_full_reruns() {
+    let Some(model) = shared_model("iML1515.xml.gz") else {
+        return;
+    };
+    assert_rechecks_match_full_reruns(&model, 1000);
+}
+
+// Opt-in (each reference re-run is a whole Recon3D capability analysis).
+#[test]
+#[ignore]
+fn recon3d_rechecks_match_full_reruns() {
+    let Some(model) = shared_model("Recon3D.xml.gz") else {
+        return;
+    };
+    assert_rechecks_match_full_reruns(&model, 40);
+}
+
+// Opt-in (a minute in debug builds): every Recon3D loop checks back as a
+// steady-state, sign-feasible, elementary flux, and the loops cover the
+// whole loop-capable set (2409, see above).
+#[test]
+#[ignore]
+fn recon3d_loops_cover_the_set_and_check_back() {
+    let Some(model) = shared_model("Recon3D.xml.gz") else {
+        return;
+    };
+    let analysis = analyse_loops(&model, &LoopOptions::default()).unwrap();
+    assert_eq!(analysis.loop_capable.len(), 2409);
+    assert_loops_sound(&analysis);
+    visible(&format!(
+        "Recon3D: {} loops ({} without LP, {} LP solves)",
+        analysis.loops.len(),
+        analysis.stats.direct_loops,
+        analysis.stats.loop_lp_solves
+    ));
 }

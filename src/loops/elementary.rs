@@ -4,17 +4,24 @@
 //!   min Σ |v_r|  s.t.  S·v = 0,  v_target = ±1,  signs as capable
 //! has an optimal vertex that is an elementary flux mode of the closed
 //! network (a vertex of the cone cut by the plane v_target = ±1 within one
-//! orthant); the simplex returns such a vertex. Each loop is checked back:
+//! orthant); the simplex returns such a vertex. Targets whose loop can be
+//! read off the compressed structure (a column that balances by itself, or
+//! two proportional columns with compatible directions) skip the LP: that
+//! loop is elementary too, though not necessarily L1-minimal, and any
+//! elementary loop through the target serves the cover. Each loop is checked back:
 //! S·v = 0 within tolerance, signs allowed by the bounds, and the support's
 //! columns have a one-dimensional null space (elementary).
 
-use super::compress::compress;
+use super::compress::{compress, Merged};
 use super::network::Directions;
 use super::nullspace::Elimination;
-use super::tolerance::{FLUX_NONZERO, INTEGER_MULTIPLIER_MAX, INTEGER_SNAP, LOOP_RESIDUAL};
+use super::tolerance::{
+    FLUX_NONZERO, INTEGER_MULTIPLIER_MAX, INTEGER_SNAP, LOOP_RESIDUAL, PROPORTIONAL_KEY_SCALE,
+    PROPORTIONAL_MATCH,
+};
 use crate::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
 use serde::Serialize;
-use std::collections::BTreeSet;
+use std::collections::{BTreeMap, BTreeSet};
 
 /// One reaction of a loop.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -55,6 +62,8 @@ pub struct LoopSet {
     pub uncovered: Vec<usize>,
     pub truncated: bool,
     pub lp_solves: usize,
+    /// Loops read off the structure without an LP.
+    pub direct_loops: usize,
 }
 
 /// Names needed to describe loops.
@@ -78,6 +87,7 @@ pub fn find_loops(
         uncovered: Vec::new(),
         truncated: false,
         lp_solves: 0,
+        direct_loops: 0,
     };
     if members.is_empty() {
         return Ok(result);
@@ -88,28 +98,33 @@ pub fn find_loops(
     let metabolite_count = names.metabolites.len();
     let compressed = compress(metabolite_count, columns, capable);
     let merged = &compressed.merged;
+    // A reversible merged flux is split as u = p − n (p, n ≥ 0), both parts
+    // weighted: Σ weight·(p + n) is the L1 norm at any vertex (the two parts
+    // have opposite columns, so no basis holds both), and the LP keeps only
+    // the steady-state rows instead of two |u| rows per reversible column.
     let mut lp = LinearProgram::new(Sense::Minimise);
-    let mut vars: Vec<Var> = Vec::with_capacity(merged.len());
+    let mut parts: Vec<FluxParts> = Vec::with_capacity(merged.len());
     for column in merged {
         let weight: f64 = column.members.iter().map(|(_, f)| f.abs()).sum();
         let d = column.allowed;
-        let var = match (d.forward, d.backward) {
-            (true, true) => {
-                let u = lp.add_variable(0.0, f64::NEG_INFINITY, f64::INFINITY);
-                let a = lp.add_variable(weight, 0.0, f64::INFINITY);
-                lp.add_row(&[(a, 1.0), (u, -1.0)], Relation::GreaterOrEqual, 0.0);
-                lp.add_row(&[(a, 1.0), (u, 1.0)], Relation::GreaterOrEqual, 0.0);
-                u
-            }
-            (true, false) => lp.add_variable(weight, 0.0, f64::INFINITY),
-            _ => lp.add_variable(-weight, f64::NEG_INFINITY, 0.0),
-        };
-        vars.push(var);
+        parts.push(FluxParts {
+            forward: d
+                .forward
+                .then(|| lp.add_variable(weight, 0.0, f64::INFINITY)),
+            backward: d
+                .backward
+                .then(|| lp.add_variable(weight, 0.0, f64::INFINITY)),
+        });
     }
     let mut rows: Vec<Vec<(Var, f64)>> = vec![Vec::new(); metabolite_count];
-    for (column, &var) in merged.iter().zip(&vars) {
+    for (column, part) in merged.iter().zip(&parts) {
         for &(m, c) in &column.column {
-            rows[m].push((var, c));
+            if let Some(p) = part.forward {
+                rows[m].push((p, c));
+            }
+            if let Some(n) = part.backward {
+                rows[m].push((n, -c));
+            }
         }
     }
     for row in rows.iter().filter(|row| !row.is_empty()) {
@@ -127,54 +142,82 @@ pub fn find_loops(
     let mut order: Vec<usize> = (0..merged.len()).collect();
     order.sort_by_key(|&j| merged[j].members.iter().map(|(r, _)| *r).min());
     let mut order = order.into_iter().peekable();
+    let partners = proportional_partners(merged);
     let mut covered = vec![false; columns.len()];
     let mut keys: BTreeSet<Vec<(usize, bool)>> = BTreeSet::new();
     loop {
+        // Targets with a loop read off the structure (see `direct_loop`) are
+        // taken on their own, in order; the others go to the LP workers.
         let mut batch = Vec::with_capacity(LOOP_WORKERS);
+        let mut direct = None;
         while batch.len() < LOOP_WORKERS {
-            let Some(target) = order.next() else { break };
-            if !merged[target].members.iter().all(|(r, _)| covered[*r]) {
-                batch.push(target);
+            let Some(&target) = order.peek() else { break };
+            if merged[target].members.iter().all(|(r, _)| covered[*r]) {
+                order.next();
+                continue;
             }
+            if let Some(found) = direct_loop(merged, &partners, target) {
+                if batch.is_empty() {
+                    order.next();
+                    direct = Some(found);
+                }
+                break;
+            }
+            order.next();
+            batch.push(target);
         }
-        if batch.is_empty() {
+        if batch.is_empty() && direct.is_none() {
             break;
         }
         if limit.is_some_and(|l| result.loops.len() >= l) {
             result.truncated = true;
             break;
         }
-        let outcomes: Vec<Result<TargetOutcome, LpError>> = std::thread::scope(|scope| {
-            let handles: Vec<_> = batch
-                .iter()
-                .zip(sessions.iter_mut())
-                .map(|(&target, session)| {
-                    let var = vars[target];
-                    let allowed = merged[target].allowed;
-                    scope.spawn(move || loop_through(session, var, allowed))
-                })
-                .collect();
-            handles
-                .into_iter()
-                .map(|h| h.join().expect("loop worker panicked"))
-                .collect()
-        });
+        let outcomes: Vec<Result<TargetOutcome, LpError>> = if let Some(found) = direct {
+            result.direct_loops += 1;
+            vec![Ok((Some(found), 0))]
+        } else {
+            std::thread::scope(|scope| {
+                let handles: Vec<_> = batch
+                    .iter()
+                    .zip(sessions.iter_mut())
+                    .map(|(&target, session)| {
+                        let part = parts[target];
+                        let parts = &parts;
+                        scope.spawn(move || {
+                            let (values, solves) = loop_through(session, part)?;
+                            let lambdas = values.map(|values| {
+                                parts
+                                    .iter()
+                                    .enumerate()
+                                    .map(|(j, p)| (j, p.value(&values)))
+                                    .filter(|(_, lambda)| *lambda != 0.0)
+                                    .collect()
+                            });
+                            Ok((lambdas, solves))
+                        })
+                    })
+                    .collect();
+                handles
+                    .into_iter()
+                    .map(|h| h.join().expect("loop worker panicked"))
+                    .collect()
+            })
+        };
         for outcome in outcomes {
             let (found, solves) = outcome?;
             result.lp_solves += solves;
-            let Some(values) = found else {
+            let Some(lambdas) = found else {
                 continue;
             };
             if limit.is_some_and(|l| result.loops.len() >= l) {
                 result.truncated = true;
                 break;
             }
-            let mut flux: Vec<(usize, f64)> = merged
+            let mut flux: Vec<(usize, f64)> = lambdas
                 .iter()
-                .zip(&vars)
-                .flat_map(|(column, var)| {
-                    let lambda = values[var.0];
-                    column.members.iter().map(move |&(r, f)| (r, f * lambda))
+                .flat_map(|&(j, lambda)| {
+                    merged[j].members.iter().map(move |&(r, f)| (r, f * lambda))
                 })
                 .filter(|(_, v)| *v != 0.0)
                 .collect();
@@ -208,25 +251,114 @@ pub fn find_loops(
 /// taken from the machine, so the loop list is the same everywhere.
 const LOOP_WORKERS: usize = 2;
 
-/// LP values of a loop (none when the target has no loop) and LP solves.
-type TargetOutcome = (Option<Vec<f64>>, usize);
+/// Merged fluxes (column, λ) of a loop (none when the target has no loop)
+/// and LP solves.
+type TargetOutcome = (Option<Vec<(usize, f64)>>, usize);
 
-/// One target: the L1-minimal loop with the merged flux fixed at +1, or
-/// else at −1. Returns the LP values (or none: no loop either way) and the
-/// number of LP solves.
-fn loop_through(
-    session: &mut LpSession,
-    var: Var,
-    allowed: Directions,
-) -> Result<TargetOutcome, LpError> {
-    let mut solves = 0;
+/// Groups of merged columns with proportional stoichiometry: per column, the
+/// other columns c·S_j of its group with their factor c (in column order).
+fn proportional_partners(merged: &[Merged]) -> Vec<Vec<(usize, f64)>> {
+    let mut groups: BTreeMap<Vec<(usize, i64)>, Vec<usize>> = BTreeMap::new();
+    for (j, column) in merged.iter().enumerate() {
+        let Some(&(_, first)) = column.column.first() else {
+            continue;
+        };
+        // Rounded shape as a grouping key only; factors are checked below,
+        // and a pair the rounding splits merely goes to the LP.
+        let key = column
+            .column
+            .iter()
+            .map(|&(m, c)| (m, (c / first * PROPORTIONAL_KEY_SCALE).round() as i64))
+            .collect();
+        groups.entry(key).or_default().push(j);
+    }
+    let mut partners = vec![Vec::new(); merged.len()];
+    for group in groups.values().filter(|g| g.len() > 1) {
+        for &j in group {
+            for &k in group {
+                if k == j {
+                    continue;
+                }
+                let a = &merged[j].column;
+                let b = &merged[k].column;
+                let factor = b[0].1 / a[0].1;
+                let proportional = a.iter().zip(b).all(|(&(_, x), &(_, y))| {
+                    (y - factor * x).abs() <= PROPORTIONAL_MATCH * y.abs().max(x.abs())
+                });
+                if proportional {
+                    partners[j].push((k, factor));
+                }
+            }
+        }
+    }
+    partners
+}
+
+/// A loop through merged column `target` read off the structure, no LP
+/// needed: a column that balances by itself (a chain that closed on itself
+/// during compression), or two columns S_k = c·S_j, which balance as
+/// λ_j = s, λ_k = −s/c when both signs are allowed. Both are elementary
+/// (one or two columns, rank one less); signs are tried +1 first, partners
+/// in column order, as in the LP path.
+fn direct_loop(
+    merged: &[Merged],
+    partners: &[Vec<(usize, f64)>],
+    target: usize,
+) -> Option<Vec<(usize, f64)>> {
+    let allowed = merged[target].allowed;
     for sign in [1.0, -1.0] {
         if !allowed.allows(sign) {
             continue;
         }
-        let attempt = session.fix(var, sign).map(|s| s.values.clone());
-        session.release(var)?;
+        if merged[target].column.is_empty() {
+            return Some(vec![(target, sign)]);
+        }
+        for &(k, factor) in &partners[target] {
+            let lambda = -sign / factor;
+            if merged[k].allowed.allows(lambda) {
+                let mut pair = vec![(target, sign), (k, lambda)];
+                pair.sort_by_key(|(j, _)| *j);
+                return Some(pair);
+            }
+        }
+    }
+    None
+}
+
+/// LP variables of a merged flux: its forward and backward parts.
+#[derive(Debug, Clone, Copy)]
+struct FluxParts {
+    forward: Option<Var>,
+    backward: Option<Var>,
+}
+
+impl FluxParts {
+    fn value(&self, values: &[f64]) -> f64 {
+        self.forward.map_or(0.0, |p| values[p.0]) - self.backward.map_or(0.0, |n| values[n.0])
+    }
+}
+
+/// One target: the L1-minimal loop with the merged flux at +1 (forward part
+/// fixed at 1, backward part at 0), or else at −1. Returns the LP values
+/// (or none: no loop either way) and the number of LP solves.
+fn loop_through(
+    session: &mut LpSession,
+    part: FluxParts,
+) -> Result<(Option<Vec<f64>>, usize), LpError> {
+    let mut solves = 0;
+    for (on, off) in [(part.forward, part.backward), (part.backward, part.forward)] {
+        let Some(on) = on else { continue };
+        if let Some(off) = off {
+            session.fix(off, 0.0)?;
+            solves += 1;
+        }
+        let attempt = session.fix(on, 1.0).map(|s| s.values.clone());
+        session.release(on)?;
         solves += 2;
+        if let Some(off) = off {
+            session.release(off)?;
+            solves += 1;
+        }
         match attempt {
             Ok(values) => return Ok((Some(values), solves)),
             Err(LpError::Infeasible) => continue,
@@ -324,6 +456,41 @@ fn snap_to_integers(scaled: &[f64]) -> (Vec<f64>, bool) {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    fn column(entries: &[(usize, f64)], allowed: Directions) -> Merged {
+        Merged {
+            column: entries.to_vec(),
+            members: Vec::new(),
+            allowed,
+        }
+    }
+
+    // Steady-state balance by hand (common practice): A → B and
+    // 2 B → 2 A balance as 1·(A → B) + ½·(2 B → 2 A); a second A → B
+    // cannot close a loop with the first (both produce B).
+    #[test]
+    fn proportional_columns_give_two_reaction_loops() {
+        let merged = vec![
+            column(&[(0, -1.0), (1, 1.0)], Directions::FORWARD),
+            column(&[(0, 2.0), (1, -2.0)], Directions::FORWARD),
+            column(&[(0, -1.0), (1, 1.0)], Directions::FORWARD),
+            column(&[], Directions::BACKWARD),
+        ];
+        let partners = proportional_partners(&merged);
+        assert_eq!(partners[0], vec![(1, -2.0), (2, 1.0)]);
+        assert_eq!(
+            direct_loop(&merged, &partners, 0),
+            Some(vec![(0, 1.0), (1, 0.5)])
+        );
+        assert_eq!(
+            direct_loop(&merged, &partners, 2),
+            Some(vec![(1, 0.5), (2, 1.0)])
+        );
+        // A column that balances by itself is a loop alone, in its direction.
+        assert_eq!(direct_loop(&merged, &partners, 3), Some(vec![(3, -1.0)]));
+        let alone = vec![merged[0].clone(), merged[2].clone()];
+        assert_eq!(direct_loop(&alone, &proportional_partners(&alone), 0), None);
+    }
 
     // Arithmetic (common practice): 1, 1.5, 0.5·… → smallest multiplier 2.
     #[test]

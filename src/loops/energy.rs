@@ -4,13 +4,12 @@
 //! (Hess's law, common practice); a sum beyond k·σ means the ΔrG'° data of
 //! the loop are mutually inconsistent. Whatever the data, a loop cannot run:
 //! the member whose loop direction is least plausible (largest ΔG'_min in
-//! that direction) is the natural one to constrain, and re-running the
-//! loop-capable analysis with that direction forbidden tells whether doing
-//! so stops the loop's reactions from looping.
+//! that direction) is the natural one to constrain, and re-checking the
+//! loop-capable network with that direction forbidden (`recheck`) tells
+//! whether doing so stops the loop's reactions from looping.
 
-use super::capable::capable_directions;
-use super::network::{ClosedNetwork, Directions};
-use super::prune::prune;
+use super::network::ClosedNetwork;
+use super::recheck::{Forbid, Rechecker};
 use super::tolerance::ENERGY_SUM_ROUNDOFF;
 use super::{LoopAnalysis, LoopError};
 use crate::model::Model;
@@ -35,8 +34,8 @@ pub struct DeltaGRange {
 pub struct LoopEnergyOptions {
     /// Confidence multiplier k: a sum beyond k·σ is inconsistent.
     pub confidence: f64,
-    /// Re-check at most this many loops with their suggested constraint
-    /// (each re-check reruns the loop-capable analysis); `None` = all.
+    /// Re-check at most this many suggested constraints (each costs a few
+    /// warm LP edits on the loop-capable network); `None` = all.
     pub recheck_limit: Option<usize>,
 }
 
@@ -113,11 +112,9 @@ pub fn assess_loop_energies(
     options: &LoopEnergyOptions,
 ) -> Result<Vec<LoopEnergy>, LoopError> {
     let k = options.confidence;
-    let capable = analysis.capable_directions(model.reactions.len());
-    let (network, _) = ClosedNetwork::close(model);
-    let mut rechecks = 0usize;
+    let mut rechecks: Vec<PendingRecheck> = Vec::new();
     let mut out = Vec::with_capacity(analysis.loops.len());
-    for cycle in &analysis.loops {
+    for (position, cycle) in analysis.loops.iter().enumerate() {
         let mut sum = 0.0;
         let mut variance = 0.0;
         let mut without = Vec::new();
@@ -147,28 +144,22 @@ pub fn assess_loop_energies(
                 suggestions.push(None);
                 continue;
             };
-            let within_limit = options.recheck_limit.is_none_or(|l| rechecks < l);
-            let rechecked = if within_limit {
-                rechecks += 1;
-                Some(recheck(
-                    model,
-                    &network,
-                    &capable,
-                    cycle,
+            if options.recheck_limit.is_none_or(|l| rechecks.len() < l) {
+                rechecks.push(PendingRecheck {
+                    position,
+                    reversed: orientation < 0.0,
                     orientation,
                     index,
-                    c,
-                )?)
-            } else {
-                None
-            };
+                    coefficient: c,
+                });
+            }
             suggestions.push(Some(ConstraintSuggestion {
                 reaction: model.reactions[index].id.clone(),
                 index,
                 forbid: if c > 0.0 { "forward" } else { "backward" },
                 dg_min_in_loop_direction_kj: dg_min,
                 basis,
-                rechecked,
+                rechecked: None,
             }));
         }
         let mut suggestions = suggestions.into_iter();
@@ -185,7 +176,68 @@ pub fn assess_loop_energies(
             constrain_reversed,
         });
     }
+    if rechecks.is_empty() {
+        return Ok(out);
+    }
+    let lp_error = |source| LoopError {
+        model: model.id.clone(),
+        stage: "constraint re-check",
+        source,
+    };
+    let capable = analysis.capable_directions(model.reactions.len());
+    let (network, _) = ClosedNetwork::close(model);
+    let forbids: Vec<Forbid> = rechecks
+        .iter()
+        .map(|p| (p.index, p.coefficient.signum()))
+        .collect();
+    let mut rechecker = Rechecker::new(
+        network.metabolite_count,
+        &network.columns,
+        &capable,
+        &forbids,
+    )
+    .map_err(lp_error)?;
+    for (pending, forbid) in rechecks.iter().zip(forbids) {
+        let cycle = &analysis.loops[pending.position];
+        let wanted: Vec<(usize, f64)> = cycle
+            .members
+            .iter()
+            .map(|m| (m.index, pending.orientation * m.coefficient))
+            .collect();
+        let (looping, _) = rechecker.still_capable(forbid, &wanted).map_err(lp_error)?;
+        let still_looping: Vec<String> = cycle
+            .members
+            .iter()
+            .zip(looping)
+            .filter(|(_, still)| *still)
+            .map(|(m, _)| m.reaction.clone())
+            .collect();
+        let energy = &mut out[pending.position];
+        let slot = if pending.reversed {
+            &mut energy.constrain_reversed
+        } else {
+            &mut energy.constrain
+        };
+        if let Some(suggestion) = slot {
+            suggestion.rechecked = Some(Recheck {
+                breaks_loop: still_looping.is_empty(),
+                still_looping,
+            });
+        }
+    }
     Ok(out)
+}
+
+/// A suggested constraint waiting for its re-check.
+struct PendingRecheck {
+    /// Index of the loop in the analysis.
+    position: usize,
+    /// The suggestion is for the loop run backwards.
+    reversed: bool,
+    orientation: f64,
+    /// Reaction whose loop direction is forbidden, and its signed coefficient.
+    index: usize,
+    coefficient: f64,
 }
 
 /// The member with the largest ΔG'_min in its loop direction (coefficients
@@ -220,41 +272,4 @@ fn least_plausible(
         }
     }
     worst
-}
-
-/// Loop-capable analysis restricted to the loop-capable reactions (every
-/// other reaction carries no flux in the closed network anyway, and
-/// forbidding a direction can only shrink the set) with one direction of
-/// `index` forbidden.
-fn recheck(
-    model: &Model,
-    network: &ClosedNetwork,
-    capable: &[Directions],
-    cycle: &super::ElementaryLoop,
-    orientation: f64,
-    index: usize,
-    coefficient: f64,
-) -> Result<Recheck, LoopError> {
-    let mut allowed = capable.to_vec();
-    if coefficient > 0.0 {
-        allowed[index].forward = false;
-    } else {
-        allowed[index].backward = false;
-    }
-    prune(network.metabolite_count, &network.columns, &mut allowed);
-    let result = capable_directions(&network.columns, &allowed).map_err(|source| LoopError {
-        model: model.id.clone(),
-        stage: "constraint re-check",
-        source,
-    })?;
-    let still_looping: Vec<String> = cycle
-        .members
-        .iter()
-        .filter(|m| result.capable[m.index].allows(orientation * m.coefficient))
-        .map(|m| m.reaction.clone())
-        .collect();
-    Ok(Recheck {
-        breaks_loop: still_looping.is_empty(),
-        still_looping,
-    })
 }

@@ -17,6 +17,7 @@ mod energy;
 mod network;
 mod nullspace;
 mod prune;
+mod recheck;
 pub mod tolerance;
 
 pub use currency::{CurrencyOptions, DissipationTest};
@@ -86,6 +87,8 @@ pub struct LoopStats {
     pub direction_lps: usize,
     /// LP solves (including warm edits) for the loop list.
     pub loop_lp_solves: usize,
+    /// Loops read off the compressed structure without an LP.
+    pub direct_loops: usize,
 }
 
 /// Everything [`analyse_loops`] found.
@@ -183,6 +186,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
         reversible_blocked_by_null_space: capability.reversible_blocked_by_null_space,
         direction_lps: capability.direction_lps,
         loop_lp_solves: 0,
+        direct_loops: 0,
     };
     let mut analysis = LoopAnalysis {
         model: model.id.clone(),
@@ -218,6 +222,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
         source,
     })?;
     stats.loop_lp_solves = set.lp_solves;
+    stats.direct_loops = set.direct_loops;
     analysis.stats = stats;
     analysis.loops_truncated = set.truncated;
     analysis.uncovered_reactions = set

@@ -63,3 +63,12 @@ pub const RANDOM_SEED: u64 = 0x6769_6262_7369_7465;
 /// Round-off allowance (kJ/mol) when a loop's ΔrG'° sum is compared with
 /// k·σ, so that σ = 0 data that cancel exactly are not flagged.
 pub const ENERGY_SUM_ROUNDOFF: f64 = 1e-6;
+
+/// Two merged columns count as proportional (a two-reaction loop read off
+/// the structure) when every coefficient matches the factor to this
+/// relative tolerance; the loop is verified afterwards like any other.
+pub const PROPORTIONAL_MATCH: f64 = 1e-9;
+
+/// Normalised coefficients are rounded to multiples of 1/this to group
+/// candidate proportional columns (a grouping key only).
+pub const PROPORTIONAL_KEY_SCALE: f64 = 1e6;

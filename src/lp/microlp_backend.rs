@@ -98,6 +98,10 @@ impl LpSession {
     /// the state before this call.
     pub fn fix(&mut self, var: Var, value: f64) -> Result<&LpSolution, LpError> {
         let state = self.take_state()?;
+        // A failed edit consumes the solver state; a copy of the basis is far
+        // cheaper than solving again from scratch, and infeasible fixes are
+        // ordinary answers for the feasibility questions asked here.
+        let backup = state.clone();
         match state.fix_var(self.vars[var.0], value) {
             Ok(outcome) => {
                 let (state, current) = read_outcome(outcome, &self.vars)?;
@@ -107,7 +111,7 @@ impl LpSession {
                 Ok(&self.current)
             }
             Err(error) => {
-                self.rebuild()?;
+                self.state = Some(backup);
                 Err(convert_error(error))
             }
         }

@@ -1,0 +1,187 @@
+//! Constraint re-checks on the loop-capable network, with one warm LP.
+//!
+//! Question: with one direction of one reaction forbidden, which members of
+//! a loop can still carry flux in their loop direction? Forbidding a
+//! direction only shrinks the cone of closed-network fluxes, so every flux
+//! of the constrained cone lies in the loop-capable network: the question
+//! is asked there, compressed (chains merge exactly, see `compress`: each
+//! reaction's flux is a fixed multiple of its merged column's flux, so a
+//! direction of a reaction is a direction of its column).
+//!
+//! A member can carry flux of sign t exactly when fixing its column's flux
+//! at t is feasible in the (unboxed) cone: scale any flux of that sign. One
+//! session over the whole capable network serves every re-check. Each
+//! constraint is a fix too: a reversible column that may need one of its
+//! directions forbidden carries two slack variables u = p − n (p, n ≥ 0), and
+//! fixing p (or n) at 0 forbids the forward (or backward) direction; an
+//! irreversible column is fixed at 0. Each feasible solution settles every
+//! member it shows carrying flux in its loop direction, so a re-check costs a
+//! few warm dual-simplex edits instead of a capability analysis.
+
+use super::compress::compress;
+use super::network::Directions;
+use super::tolerance::FLUX_NONZERO;
+use crate::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
+use std::collections::BTreeMap;
+
+/// A direction to forbid: (reaction, sign of the forbidden flux).
+pub type Forbid = (usize, f64);
+
+/// Warm LP over the compressed loop-capable network.
+pub struct Rechecker {
+    session: LpSession,
+    /// Per reaction: (merged column, factor) when loop-capable.
+    column_of: Vec<Option<(usize, f64)>>,
+    /// Merged flux variable per column.
+    flux: Vec<Var>,
+    allowed: Vec<Directions>,
+    /// (column, +1 or −1) → the variable to fix at 0 to forbid that sign.
+    forbid_var: BTreeMap<(usize, i8), Var>,
+}
+
+fn sign_key(sign: f64) -> i8 {
+    if sign > 0.0 {
+        1
+    } else {
+        -1
+    }
+}
+
+impl Rechecker {
+    /// `capable`: loop-capable directions per reaction; `forbids`: every
+    /// constraint that will be asked about (only their columns get slacks).
+    pub fn new(
+        metabolite_count: usize,
+        columns: &[Vec<(usize, f64)>],
+        capable: &[Directions],
+        forbids: &[Forbid],
+    ) -> Result<Rechecker, LpError> {
+        let compressed = compress(metabolite_count, columns, capable);
+        let merged = &compressed.merged;
+        let mut column_of = vec![None; columns.len()];
+        for (j, column) in merged.iter().enumerate() {
+            for &(r, factor) in &column.members {
+                column_of[r] = Some((j, factor));
+            }
+        }
+        let mut lp = LinearProgram::new(Sense::Minimise);
+        let flux: Vec<Var> = merged
+            .iter()
+            .map(|m| {
+                let lower = if m.allowed.backward {
+                    f64::NEG_INFINITY
+                } else {
+                    0.0
+                };
+                let upper = if m.allowed.forward {
+                    f64::INFINITY
+                } else {
+                    0.0
+                };
+                lp.add_variable(0.0, lower, upper)
+            })
+            .collect();
+        let mut rows: Vec<Vec<(Var, f64)>> = vec![Vec::new(); metabolite_count];
+        for (column, &var) in merged.iter().zip(&flux) {
+            for &(m, c) in &column.column {
+                rows[m].push((var, c));
+            }
+        }
+        for row in rows.iter().filter(|r| !r.is_empty()) {
+            lp.add_row(row, Relation::Equal, 0.0);
+        }
+        let mut forbid_var = BTreeMap::new();
+        let mut split: BTreeMap<usize, (Var, Var)> = BTreeMap::new();
+        for &(r, sign) in forbids {
+            let Some((j, factor)) = column_of[r] else {
+                continue;
+            };
+            let merged_sign = sign_key(sign * factor);
+            if !merged[j].allowed.both() {
+                forbid_var.insert((j, merged_sign), flux[j]);
+                continue;
+            }
+            let (p, n) = *split.entry(j).or_insert_with(|| {
+                let p = lp.add_variable(0.0, 0.0, f64::INFINITY);
+                let n = lp.add_variable(0.0, 0.0, f64::INFINITY);
+                lp.add_row(&[(flux[j], 1.0), (p, -1.0), (n, 1.0)], Relation::Equal, 0.0);
+                (p, n)
+            });
+            forbid_var.insert((j, merged_sign), if merged_sign > 0 { p } else { n });
+        }
+        Ok(Rechecker {
+            session: LpSession::start(&lp)?,
+            column_of,
+            flux,
+            allowed: merged.iter().map(|m| m.allowed).collect(),
+            forbid_var,
+        })
+    }
+
+    /// With `forbid` in force, which of `wanted` (reaction, loop sign) can
+    /// still carry flux of that sign. Returns one flag per entry and the
+    /// number of LP edits.
+    pub fn still_capable(
+        &mut self,
+        forbid: Forbid,
+        wanted: &[(usize, f64)],
+    ) -> Result<(Vec<bool>, usize), LpError> {
+        let mut solves = 0;
+        let mut settled: Vec<Option<bool>> = vec![None; wanted.len()];
+        // (column, merged sign) per wanted entry.
+        let targets: Vec<Option<(usize, f64)>> = wanted
+            .iter()
+            .map(|&(r, sign)| self.column_of[r].map(|(j, f)| (j, (sign * f).signum())))
+            .collect();
+        let forbidden = self.column_of[forbid.0].map(|(j, f)| (j, (forbid.1 * f).signum()));
+        for (k, target) in targets.iter().enumerate() {
+            match *target {
+                None => settled[k] = Some(false),
+                Some((j, t)) if !self.allowed[j].allows(t) => settled[k] = Some(false),
+                Some((j, t)) if Some((j, t)) == forbidden => settled[k] = Some(false),
+                // The other sign of an irreversible forbidden column is
+                // not allowed anyway (caught above).
+                _ => {}
+            }
+        }
+        let forbid_var =
+            forbidden.and_then(|(j, t)| self.forbid_var.get(&(j, sign_key(t))).copied());
+        if let Some(var) = forbid_var {
+            self.session.fix(var, 0.0)?;
+            solves += 1;
+        }
+        for k in 0..wanted.len() {
+            if settled[k].is_some() {
+                continue;
+            }
+            let (j, t) = targets[k].expect("unsettled targets have a column");
+            let attempt = self.session.fix(self.flux[j], t).map(|s| s.values.clone());
+            solves += 1;
+            match attempt {
+                Ok(values) => {
+                    for (other, target) in targets.iter().enumerate() {
+                        if let (None, Some((i, s))) = (settled[other], *target) {
+                            if s * values[self.flux[i].0] >= FLUX_NONZERO {
+                                settled[other] = Some(true);
+                            }
+                        }
+                    }
+                    // The fix itself shows the target, whatever the round-off.
+                    settled[k] = Some(true);
+                    self.session.release(self.flux[j])?;
+                    solves += 1;
+                }
+                Err(LpError::Infeasible) => settled[k] = Some(false),
+                Err(other) => return Err(other),
+            }
+        }
+        if let Some(var) = forbid_var {
+            self.session.release(var)?;
+            solves += 1;
+        }
+        Ok((
+            settled.into_iter().map(|s| s == Some(true)).collect(),
+            solves,
+        ))
+    }
+}
