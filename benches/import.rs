@@ -15,9 +15,11 @@
 
 use gibbsite::checks::balance;
 use gibbsite::project::sbml::read_sbml;
-use std::path::{Path, PathBuf};
+use std::path::Path;
 use std::process::Command;
 use std::time::{Duration, Instant};
+
+mod common;
 
 const RUNS: usize = 5;
 const CHILD_FLAG: &str = "--one-model";
@@ -33,31 +35,9 @@ fn main() {
         measure(Path::new(path));
         return;
     }
-    let mut paths: Vec<PathBuf> = args
-        .iter()
-        .filter(|a| !a.starts_with("--"))
-        .map(PathBuf::from)
-        .collect();
-    if paths.is_empty() {
-        let dir = std::env::var_os("GIBBSITE_MODELS_DIR")
-            .map(PathBuf::from)
-            .unwrap_or_else(|| Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models"));
-        let Ok(entries) = std::fs::read_dir(&dir) else {
-            println!(
-                "skipped: {} not found (set GIBBSITE_MODELS_DIR or pass model paths)",
-                dir.display()
-            );
-            return;
-        };
-        paths = entries
-            .filter_map(|e| e.ok().map(|e| e.path()))
-            .filter(|p| {
-                let name = p.to_string_lossy();
-                name.ends_with(".xml") || name.ends_with(".xml.gz")
-            })
-            .collect();
-        paths.sort();
-    }
+    let Some(paths) = common::model_paths(&args) else {
+        return;
+    };
     println!(
         "{:<20} {:>9} {:>8} {:>8} {:>8} {:>8} {:>9} {:>8} {:>10} {:>8} {:>8} {:>11} {:>12}",
         "model",

@@ -22,8 +22,9 @@ use gibbsite::loops::{
 };
 use gibbsite::model::Model;
 use gibbsite::project::sbml::read_sbml;
-use std::path::{Path, PathBuf};
 use std::time::{Duration, Instant};
+
+mod common;
 
 fn main() {
     // `cargo bench` passes `--bench`; ignore flags other than our own.
@@ -35,32 +36,9 @@ fn main() {
         .and_then(|n| n.parse::<usize>().ok())
         .unwrap_or(5)
         .max(1);
-    let mut paths: Vec<PathBuf> = args
-        .iter()
-        .filter(|a| a.ends_with(".xml") || a.ends_with(".xml.gz"))
-        .map(PathBuf::from)
-        .collect();
-    if paths.is_empty() {
-        let dir = std::env::var_os("GIBBSITE_MODELS_DIR")
-            .map(PathBuf::from)
-            .unwrap_or_else(|| Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models"));
-        let Ok(entries) = std::fs::read_dir(&dir) else {
-            println!(
-                "skipped: {} not found (set GIBBSITE_MODELS_DIR or pass model paths)",
-                dir.display()
-            );
-            return;
-        };
-        paths = entries
-            .filter_map(|e| e.ok().map(|e| e.path()))
-            .filter(|p| {
-                let name = p.to_string_lossy();
-                name.ends_with(".xml") || name.ends_with(".xml.gz")
-            })
-            .collect();
-        // Smallest first, so the quick figures show before the slow ones.
-        paths.sort_by_key(|p| std::fs::metadata(p).map(|m| m.len()).unwrap_or(0));
-    }
+    let Some(paths) = common::model_paths(&args) else {
+        return;
+    };
     println!(
         "{:<16} {:>9} {:>8} {:>8} | {:>9} {:>9} {:>6} | {:>9} {:>7} | {:>9} {:>6} | {:>9} {:>6} {:>4}",
         "model",
