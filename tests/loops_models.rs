@@ -23,30 +23,14 @@ use gibbsite::loops::{
 use gibbsite::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
 use gibbsite::model::Model;
 use gibbsite::project::sbml::read_sbml;
-use std::path::{Path, PathBuf};
+use std::path::Path;
+
+mod common;
+use common::{shared_model, visible};
 
 fn e_coli_core() -> Model {
     let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/data/e_coli_core.xml.gz");
     read_sbml(&path).expect("e_coli_core imports")
-}
-
-fn shared_model(file: &str) -> Option<Model> {
-    let dir = match std::env::var_os("GIBBSITE_MODELS_DIR") {
-        Some(dir) => PathBuf::from(dir),
-        None => Path::new(env!("CARGO_MANIFEST_DIR")).join("../shared/models"),
-    };
-    let path = dir.join(file);
-    if !path.is_file() {
-        visible(&format!("skipped: {} not found", path.display()));
-        return None;
-    }
-    Some(read_sbml(&path).unwrap_or_else(|e| panic!("{file} should import:\n{e}")))
-}
-
-/// Writes past the test harness's output capture so a skip always shows.
-fn visible(message: &str) {
-    use std::io::Write;
-    let _ = writeln!(std::io::stderr(), "{message}");
 }
 
 /// Closed-network bounds: boundary reactions shut, others relaxed to include 0.
