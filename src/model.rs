@@ -159,8 +159,6 @@ pub struct Reaction {
     /// (metabolite index, signed coefficient): negative = consumed.
     /// Sorted by metabolite index, no duplicates, no zeros.
     pub stoichiometry: Vec<(usize, f64)>,
-    /// True when written with `<->` (both directions meant to be possible).
-    pub reversible: bool,
     pub lower_bound: f64,
     pub upper_bound: f64,
     /// ΔrG'° given for the reaction, overriding the formation-energy sum.
@@ -173,6 +171,11 @@ pub struct Reaction {
 }
 
 impl Reaction {
+    /// Reversible means the bounds allow both directions (derived, never
+    /// stored, so it cannot disagree with the bounds).
+    pub fn is_reversible(&self) -> bool {
+        self.allows_forward() && self.allows_backward()
+    }
     pub fn allows_forward(&self) -> bool {
         self.upper_bound > 0.0
     }

@@ -66,7 +66,6 @@ fn model(reactions: &[Spec<'_>]) -> Model {
             id: id.to_string(),
             name: id.to_string(),
             stoichiometry,
-            reversible: *lower < 0.0 && *upper > 0.0,
             lower_bound: *lower,
             upper_bound: *upper,
             drg_prime: None,

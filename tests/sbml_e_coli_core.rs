@@ -73,17 +73,17 @@ fn bounds_objective_and_reversibility() {
     // R_EX_glc__D_e_lower_bound in the file).
     let atpm = reaction(&m, "R_ATPM");
     assert_eq!((atpm.lower_bound, atpm.upper_bound), (8.39, 1000.0));
-    assert!(!atpm.reversible);
+    assert!(!atpm.is_reversible());
     let glc = reaction(&m, "R_EX_glc__D_e");
     assert_eq!((glc.lower_bound, glc.upper_bound), (-10.0, 1000.0));
     // R_FORt: reversible="true" in the file, yet bounds [-1000, 0]: in gibbsite
     // "reversible" follows the bounds, so it is not.
     let fort = reaction(&m, "R_FORt");
-    assert!(!fort.reversible);
+    assert!(!fort.is_reversible());
     assert_eq!((fort.lower_bound, fort.upper_bound), (-1000.0, 0.0));
     // 47 reactions are reversible="true" in the file; R_FORt's bounds allow one
     // direction only, leaving 46 whose bounds allow both.
-    assert_eq!(m.reactions.iter().filter(|r| r.reversible).count(), 46);
+    assert_eq!(m.reactions.iter().filter(|r| r.is_reversible()).count(), 46);
     // Objective: maximise the biomass reaction with coefficient 1.
     let biomass = m.reaction_index("R_BIOMASS_Ecoli_core_w_GAM").unwrap();
     assert_eq!(m.objective, vec![(biomass, 1.0)]);

@@ -351,7 +351,6 @@ mod tests {
             id: id.into(),
             name: id.into(),
             stoichiometry,
-            reversible: true,
             lower_bound: -1000.0,
             upper_bound: 1000.0,
             drg_prime: None,

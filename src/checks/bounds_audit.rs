@@ -41,7 +41,7 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
             match analysis.verdict(j, direction) {
                 // For a reversible reaction an impossible direction is the
                 // `one-way-reversible` note below, not an error.
-                Verdict::Contradiction if !r.reversible => out.push(Finding {
+                Verdict::Contradiction if !r.is_reversible() => out.push(Finding {
                     kind: "infeasible-direction".into(),
                     severity: Severity::Error,
                     subjects: vec![r.id.clone()],
@@ -53,7 +53,7 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                     ),
                     evidence: range_evidence(analysis, j),
                 }),
-                Verdict::Marginal if !r.reversible => out.push(Finding {
+                Verdict::Marginal if !r.is_reversible() => out.push(Finding {
                     kind: "marginal-direction".into(),
                     severity: Severity::Warning,
                     subjects: vec![r.id.clone()],
@@ -68,7 +68,7 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                 _ => {}
             }
         }
-        if r.reversible {
+        if r.is_reversible() {
             let never_backward = t.range.min > allowance;
             let never_forward = t.range.max < -allowance;
             if never_backward || never_forward {

@@ -164,7 +164,6 @@ mod tests {
             id: id.into(),
             name: id.into(),
             stoichiometry: st,
-            reversible: lb < 0.0 && ub > 0.0,
             lower_bound: lb,
             upper_bound: ub,
             drg_prime: None,

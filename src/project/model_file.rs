@@ -787,7 +787,6 @@ fn reaction(
         id: raw.id.clone(),
         name: raw.name.clone().unwrap_or_else(|| raw.id.clone()),
         stoichiometry,
-        reversible: lower < 0.0 && upper > 0.0,
         lower_bound: lower,
         upper_bound: upper,
         drg_prime,

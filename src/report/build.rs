@@ -244,7 +244,7 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                 name: r.name.clone(),
                 equation: equation_text(model, j),
                 participants: participant_views(model, j, &metabolite_slugs),
-                reversible: r.reversible,
+                reversible: r.is_reversible(),
                 lower_bound: r.lower_bound,
                 upper_bound: r.upper_bound,
                 role: r.role.slug().into(),

@@ -20,10 +20,10 @@
 //!   references (fbc 2; a number written in place of the reference is
 //!   accepted), `fbc:fluxBound` elements (fbc 1), or `LOWER_BOUND` /
 //!   `UPPER_BOUND` local parameters of a kinetic law (older files).
-//!   Without any: 0 or −[`DEFAULT_FLUX_BOUND`] by `reversible`, and
+//!   Without any: 0 or −[`DEFAULT_FLUX_BOUND`] by the `reversible` attribute, and
 //!   [`DEFAULT_FLUX_BOUND`]. Infinite values are kept.
-//! - `reversible` is the SBML attribute; when absent, a negative lower
-//!   bound.
+//! - The `reversible` attribute only chooses default bounds; in the model a
+//!   reaction is reversible when its bounds allow both directions.
 //! - A missing `stoichiometry` counts as 1 (common practice; SBML Level 3
 //!   leaves it undefined). A metabolite on both sides gets its net
 //!   coefficient.
@@ -251,12 +251,6 @@ impl Reader {
             None => Vec::new(),
         };
         objective.sort_by_key(|&(j, _)| j);
-        // In gibbsite "reversible" means the bounds allow both directions (as
-        // the YAML loader derives it); the SBML attribute only set defaults.
-        for r in &mut reactions {
-            let r = &mut r.reaction;
-            r.reversible = r.lower_bound < 0.0 && r.upper_bound > 0.0;
-        }
         if let Some(groups) = packages.groups {
             self.groups(model_node, groups, &mut reactions);
         }
@@ -651,7 +645,6 @@ impl Reader {
                     id: id.to_string(),
                     name: node.attribute("name").unwrap_or(id).to_string(),
                     stoichiometry,
-                    reversible,
                     lower_bound,
                     upper_bound,
                     drg_prime: None,
