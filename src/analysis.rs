@@ -11,6 +11,7 @@ use crate::model::{Model, Range, Role, Special};
 use crate::network::Network;
 use crate::project::{Project, Settings};
 use crate::report::{Finding, Report, Verdict};
+use crate::thermo::errors::{ErrorModel, ErrorSource};
 use crate::thermo::reaction::{self, Participant};
 use crate::thermo::transport::{self, CompartmentState, Participant as TransportParticipant};
 
@@ -88,8 +89,20 @@ pub struct Analysis<'a> {
     pub loops: Option<LoopResults>,
     pub metabolites: Vec<MetaboliteThermo>,
     pub reaction_thermo: Vec<Result<ReactionThermo, MissingEnergy>>,
+    /// Independent error sources behind every ΔrG'° (shared by verdicts,
+    /// loop sums and the joint scenario LP).
+    pub errors: ErrorModel,
     /// k in the k·σ allowance, from the confidence level.
     pub sigma_multiplier: f64,
+}
+
+/// What one independent error source belongs to.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
+pub enum ErrorKey {
+    /// The ΔfG'° error of one metabolite.
+    Metabolite(usize),
+    /// A reaction's own `reaction_energy`.
+    Reaction(usize),
 }
 
 impl<'a> Analysis<'a> {
@@ -108,11 +121,13 @@ impl<'a> Analysis<'a> {
             loops: None,
             metabolites,
             reaction_thermo: Vec::new(),
+            errors: ErrorModel::default(),
             sigma_multiplier,
         };
         analysis.reaction_thermo = (0..model.reactions.len())
             .map(|j| analysis.compute_reaction(j))
             .collect();
+        analysis.errors = analysis.build_error_model();
         if settings.loops {
             analysis.loops = Some(analysis.run_loops());
         }
@@ -163,6 +178,59 @@ impl<'a> Analysis<'a> {
             energies,
             energy_cycles,
         }
+    }
+
+    /// The independent error source behind metabolite `i`'s ΔfG'°.
+    pub fn metabolite_error_key(&self, i: usize) -> ErrorKey {
+        ErrorKey::Metabolite(i)
+    }
+
+    /// Error sources of every ΔrG'°: a reaction's own value is one source;
+    /// a Σ ν·ΔfG'° has one term per participant's source, net coefficients
+    /// summed per source.
+    fn build_error_model(&self) -> ErrorModel {
+        let mut index: std::collections::BTreeMap<ErrorKey, usize> = Default::default();
+        let mut sources: Vec<ErrorSource> = Vec::new();
+        let mut source_of = |key: ErrorKey, label: &dyn Fn() -> String, sigma: f64| -> usize {
+            *index.entry(key).or_insert_with(|| {
+                sources.push(ErrorSource {
+                    label: label(),
+                    sigma_kj: sigma,
+                });
+                sources.len() - 1
+            })
+        };
+        let mut reactions = Vec::with_capacity(self.model.reactions.len());
+        for (j, thermo) in self.reaction_thermo.iter().enumerate() {
+            let r = &self.model.reactions[j];
+            let mut net: std::collections::BTreeMap<usize, f64> = Default::default();
+            match thermo {
+                Ok(t) if t.origin == EnergyOrigin::Reaction => {
+                    let s = source_of(
+                        ErrorKey::Reaction(j),
+                        &|| format!("ΔrG'° of {}", r.id),
+                        t.sigma_kj,
+                    );
+                    net.insert(s, 1.0);
+                }
+                Ok(_) => {
+                    for &(i, c) in &r.stoichiometry {
+                        let Some(e) = self.metabolite_energy(i) else {
+                            continue;
+                        };
+                        let s = source_of(
+                            self.metabolite_error_key(i),
+                            &|| format!("ΔfG'° of {}", self.model.metabolites[i].id),
+                            e.sigma_kj,
+                        );
+                        *net.entry(s).or_insert(0.0) += c;
+                    }
+                }
+                Err(_) => {}
+            }
+            reactions.push(crate::thermo::errors::net_terms(net));
+        }
+        ErrorModel { sources, reactions }
     }
 
     /// ΔfG'° of metabolite i, when known.
@@ -398,5 +466,35 @@ fn carried_hydrogens_and_charge(
             .species
             .as_ref()
             .map(|s| (s.state.mean_hydrogens, s.state.mean_charge)),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// With one source per metabolite, the error model gives every reaction
+    /// the σ of the independent rule √Σ (νσ)² computed beside it.
+    #[test]
+    fn error_model_reproduces_each_reaction_sigma() {
+        let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
+        let project = Project::load(&dir).expect("demo loads");
+        let analysis = Analysis::new(&project.model, &project.settings);
+        let mut judged = 0;
+        for (j, t) in analysis.reaction_thermo.iter().enumerate() {
+            match t {
+                Ok(t) => {
+                    judged += 1;
+                    let sigma = analysis.errors.reaction_sigma(j);
+                    assert!(
+                        (sigma - t.sigma_kj).abs() < 1e-9,
+                        "{j}: {sigma} vs {}",
+                        t.sigma_kj
+                    );
+                }
+                Err(_) => assert!(analysis.errors.reactions[j].is_empty()),
+            }
+        }
+        assert!(judged > 10, "{judged}");
     }
 }

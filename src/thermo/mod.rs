@@ -3,6 +3,7 @@
 //! the built-in library of sourced species data.
 
 pub mod constants;
+pub mod errors;
 pub mod reaction;
 
 pub mod legendre;
