@@ -50,6 +50,20 @@ pub struct Energy {
     pub sigma_kj: f64,
     /// Free text: citation, database, or "estimate".
     pub source: String,
+    /// Conditions the value was stated at, when the data say so (a ΔfG'°
+    /// copied from elsewhere); `None` means "at the compartment's
+    /// conditions". Unset parts mean "the compartment's".
+    pub at: Option<StatedConditions>,
+}
+
+/// Conditions a transformed value holds at (internal units).
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct StatedConditions {
+    pub ph: Option<f64>,
+    /// mol/L.
+    pub ionic_strength_m: Option<f64>,
+    /// K.
+    pub temperature_k: Option<f64>,
 }
 
 /// One chemical species of a reactant (Alberty's species-level data), at I = 0.

@@ -105,6 +105,7 @@ impl Reporter<'_, '_> {
             value_kj: value?,
             sigma_kj: sigma?,
             source: raw.source.clone().unwrap_or_default(),
+            at: None,
         })
     }
 

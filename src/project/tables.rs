@@ -365,6 +365,7 @@ pub fn apply_side_table(
                     value_kj: v,
                     sigma_kj: s,
                     source: src,
+                    at: None,
                 });
             }
             RowValue::Metabolite {
@@ -380,6 +381,7 @@ pub fn apply_side_table(
                         value_kj: v,
                         sigma_kj: s,
                         source: src,
+                        at: None,
                     });
                 }
                 if let Some((sp, s, src)) = species {

@@ -340,6 +340,29 @@ impl Transform {
         Ok(value - self.ionic_term() * ionic_weight)
     }
 
+    /// ΔfG'° here minus ΔfG'° under `from`, for a reactant treated as one
+    /// species with `hydrogens` H atoms and charge `charge` (the single-species
+    /// approximation for compounds without species data; Jol et al., Biophys.
+    /// J. 99 (2010) 3139): nH·RT·ln10·ΔpH − (z² − nH)·Δ(RTα·√I/(1 + B√I)).
+    /// `None` when the temperatures differ: ΔfG° itself moves with T and
+    /// that needs ΔfH°, which a lone ΔfG'° does not carry.
+    pub fn single_species_shift(
+        &self,
+        from: &Transform,
+        hydrogens: f64,
+        charge: f64,
+    ) -> Option<f64> {
+        if (self.conditions.temperature_k - from.conditions.temperature_k).abs()
+            >= STANDARD_T_TOLERANCE_K
+        {
+            return None;
+        }
+        let rt_ln10 = self.rt() * std::f64::consts::LN_10;
+        let ph = rt_ln10 * hydrogens * (self.conditions.ph - from.conditions.ph);
+        let ionic = (charge * charge - hydrogens) * (self.ionic_term() - from.ionic_term());
+        Some(ph - ionic)
+    }
+
     /// ΔfG'°, species distribution and average binding of a reactant.
     pub fn reactant(&self, species: &[Species]) -> Result<ReactantState, TransformError> {
         let lowest_mg = species
@@ -831,5 +854,29 @@ pub(crate) mod tests {
         assert_eq!(conditions.temperature_k, 310.15);
         assert_eq!(conditions.pmg, Some(3.0));
         assert_eq!(conditions.ph, 7.2);
+    }
+
+    /// The single-species shift equals the difference of two full
+    /// transforms of that one species (the transform itself is checked
+    /// against Alberty 2003's tables elsewhere in this module).
+    #[test]
+    fn single_species_shift_matches_two_transforms() {
+        let species = Species {
+            dfg0_kj: -500.0,
+            dfh0_kj: None,
+            charge: -2,
+            hydrogens: 6,
+            magnesium: 0,
+        };
+        let a = Transform::new(Conditions::new(6.0, 0.1, T_STANDARD_K)).unwrap();
+        let b = Transform::new(Conditions::new(7.5, 0.25, T_STANDARD_K)).unwrap();
+        let direct =
+            b.species_dfg_prime(&species, 0).unwrap() - a.species_dfg_prime(&species, 0).unwrap();
+        let shift = b.single_species_shift(&a, 6.0, -2.0).unwrap();
+        assert!((shift - direct).abs() < 1e-9, "{shift} vs {direct}");
+        // nH·RT·ln10 per pH unit dominates: 6 × 5.708 × 1.5 ≈ 51.4 kJ/mol.
+        assert!((shift - 51.4).abs() < 1.0, "{shift}");
+        let warm = Transform::new(Conditions::new(7.0, 0.25, 310.15)).unwrap();
+        assert_eq!(warm.single_species_shift(&a, 6.0, -2.0), None);
     }
 }
