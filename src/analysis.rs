@@ -95,6 +95,9 @@ pub struct Analysis<'a> {
     /// Compound of each metabolite for error purposes: the index of the
     /// first metabolite sharing its ΔfG'° error (`thermo::compounds`).
     pub compound_of: Vec<usize>,
+    /// ΔfG'° values copied unconverted into compartments of different
+    /// conditions (`thermo::copies`).
+    pub copied_energies: Vec<crate::thermo::copies::CopiedEnergy>,
     /// k in the k·σ allowance, from the confidence level.
     pub sigma_multiplier: f64,
 }
@@ -121,6 +124,7 @@ impl<'a> Analysis<'a> {
         let sigma_multiplier =
             crate::thermo::uncertainty::sigma_multiplier(settings.confidence).unwrap_or(1.96);
         let compound_of = crate::thermo::compounds::group_compounds(model, &metabolites);
+        let copied_energies = crate::thermo::copies::find_copies(model, &metabolites);
         let mut analysis = Analysis {
             model,
             settings,
@@ -130,6 +134,7 @@ impl<'a> Analysis<'a> {
             reaction_thermo: Vec::new(),
             errors: ErrorModel::default(),
             compound_of,
+            copied_energies,
             sigma_multiplier,
         };
         analysis.reaction_thermo = (0..model.reactions.len())
@@ -265,6 +270,14 @@ impl<'a> Analysis<'a> {
             reactions.push(crate::thermo::errors::net_terms(net));
         }
         ErrorModel { sources, reactions }
+    }
+
+    /// The copied ΔfG'° a reaction's ΔrG'° rests on (a step between two of
+    /// the compartments it was copied into), if any.
+    pub fn copied_energy_behind(&self, j: usize) -> Option<&crate::thermo::copies::CopiedEnergy> {
+        self.copied_energies
+            .iter()
+            .find(|c| c.reactions.contains(&j))
     }
 
     /// ΔfG'° of metabolite i, when known.

@@ -115,3 +115,150 @@ reactions:
     assert!((independent - 1.118).abs() < 0.001);
     assert!(1.9 < 1.959_964 * independent);
 }
+
+/// Glucose (C6H12O6, neutral, one species) in c at pH 7 and e at pH 6, equal
+/// I and T. Its ΔfG'° moves by nH·RT·ln10 per pH unit: 12 × 5.708 = 68.50
+/// kJ/mol (RT ln 10 at 298.15 K, CODATA R; common practice), and the proton
+/// term of moving its 12 H from pH 6 to pH 7 is −68.50, so the transport
+/// ΔrG'° of a neutral species is 0 (Jol et al., Biophys. J. 99 (2010) 3139).
+fn glucose_two_ph(at_c: &str, at_e: &str) -> String {
+    format!(
+        "id: t
+compartments: [{{id: c, ph: 7}}, {{id: e, ph: 6}}]
+metabolites:
+  - {{id: glc_c, compartment: c, formula: C6H12O6, charge: 0,
+     formation_energy: {{value: -426.71, sigma: 0.5, source: 'table row'{at_c}}}}}
+  - {{id: glc_e, compartment: e, formula: C6H12O6, charge: 0,
+     formation_energy: {{value: -426.71, sigma: 0.5, source: 'table row'{at_e}}}}}
+reactions:
+  - {{id: GLCt, equation: glc_e -> glc_c}}
+"
+    )
+}
+
+/// RT·ln 10 at 298.15 K with R = N_A·k exact (CODATA 2018): 5.708 kJ/mol.
+const RT_LN10_298: f64 = 8.314_462_618_153_24e-3 * 298.15 * std::f64::consts::LN_10;
+
+#[test]
+fn a_value_stated_at_other_conditions_is_moved_to_the_compartment() {
+    let report = analyse(&glucose_two_ph(", at: {ph: 7}", ", at: {ph: 7}"));
+    let glc_e = report.metabolites.iter().find(|m| m.id == "glc_e").unwrap();
+    let value = glc_e.dfg_prime.as_ref().unwrap().value_kj;
+    assert!(
+        (value - (-426.71 - 12.0 * RT_LN10_298)).abs() < 1e-9,
+        "{value}"
+    );
+    assert!((12.0 * RT_LN10_298 - 68.50).abs() < 0.005);
+    assert_eq!(glc_e.energy_origin.as_deref(), Some("model-converted"));
+    let glct = report.reactions.iter().find(|r| r.id == "GLCt").unwrap();
+    assert!(glct.drg_prime.as_ref().unwrap().value_kj.abs() < 1e-9);
+    assert!(report
+        .findings
+        .iter()
+        .all(|f| f.kind != "copied-formation-energy"));
+    // Unchanged where the value holds.
+    let glc_c = report.metabolites.iter().find(|m| m.id == "glc_c").unwrap();
+    assert_eq!(glc_c.dfg_prime.as_ref().unwrap().value_kj, -426.71);
+}
+
+#[test]
+fn a_value_copied_without_conditions_is_a_warning_and_its_verdicts_say_so() {
+    let report = analyse(&glucose_two_ph("", ""));
+    // The silently wrong transport energy: only the proton term, −68.50.
+    let glct = report.reactions.iter().find(|r| r.id == "GLCt").unwrap();
+    let drg = glct.drg_prime.as_ref().unwrap().value_kj;
+    assert!((drg + 12.0 * RT_LN10_298).abs() < 1e-9, "{drg}");
+    let copy = report
+        .findings
+        .iter()
+        .find(|f| f.kind == "copied-formation-energy")
+        .expect("warning about the copy");
+    assert_eq!(copy.subjects, ["glc_c", "glc_e", "GLCt"]);
+    assert!((copy.evidence["possible_error"] - 12.0 * RT_LN10_298).abs() < 1e-9);
+    assert!(copy.message.contains("68.50 kJ/mol"), "{}", copy.message);
+    // Run backwards (e ← c) the wrong energy makes a contradiction; its
+    // message must carry the caution.
+    let backwards = glucose_two_ph("", "").replace("glc_e -> glc_c", "glc_c -> glc_e");
+    let report = analyse(&backwards);
+    let verdict = report
+        .findings
+        .iter()
+        .find(|f| f.kind == "infeasible-direction")
+        .expect("contradiction from the copied value");
+    assert!(
+        verdict
+            .message
+            .contains("caution: built on one ΔfG'° copied")
+            && verdict.message.contains("`glc_c`, `glc_e`"),
+        "{}",
+        verdict.message
+    );
+}
+
+#[test]
+fn a_value_stated_at_another_temperature_is_not_used() {
+    let report = analyse(&glucose_two_ph("", ", at: {temperature: 37 °C}"));
+    let glc_e = report.metabolites.iter().find(|m| m.id == "glc_e").unwrap();
+    assert!(glc_e.dfg_prime.is_none());
+    let problem = glc_e.energy_problem.as_deref().unwrap();
+    assert!(
+        problem.contains("310.15 K") && problem.contains("needs ΔfH°"),
+        "{problem}"
+    );
+    let glct = report.reactions.iter().find(|r| r.id == "GLCt").unwrap();
+    assert!(glct.drg_prime.is_none());
+}
+
+/// With species data the move is exact: the library's phosphate
+/// (HPO4²⁻/H2PO4⁻, Alberty 2003 species) moved from pH 7 to pH 6 shifts by
+/// the difference of its two transforms, not by a whole number of H.
+#[test]
+fn species_data_make_the_move_exact() {
+    let report = analyse(
+        "id: t
+compartments: [{id: c, ph: 6}]
+metabolites:
+  - {id: pi_c, compartment: c, library: phosphate,
+     formation_energy: {value: -1059.49, sigma: 0.3, source: 'given at pH 7', at: {ph: 7, ionic_strength: 0.25 M}}}
+",
+    );
+    let pi = &report.metabolites[0];
+    let value = pi.dfg_prime.as_ref().unwrap().value_kj;
+    let species = |ph: f64| {
+        // ΔfG'° of the library's phosphate at pH and I = 0.25 M, from the
+        // reactant's own transform (checked against Alberty 2003 p. 220 in
+        // the library tests).
+        let lib = gibbsite::thermo::library::lookup_key("phosphate").unwrap();
+        gibbsite::thermo::legendre::reactant_dfg_prime(
+            &lib.species_list(),
+            &gibbsite::thermo::legendre::Conditions::new(ph, 0.25, 298.15),
+        )
+        .unwrap()
+    };
+    let expected = -1059.49 + species(6.0) - species(7.0);
+    assert!((value - expected).abs() < 1e-9, "{value} vs {expected}");
+    // Between one H (HPO4²⁻) and two (H2PO4⁻) per pH unit.
+    let shift = -(value + 1059.49);
+    assert!(shift > RT_LN10_298 && shift < 2.0 * RT_LN10_298, "{shift}");
+}
+
+#[test]
+fn a_reaction_energy_cannot_carry_at() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("model.yaml");
+    std::fs::write(
+        &path,
+        "id: t
+compartments: [{id: c}]
+metabolites: [{id: a, compartment: c}, {id: b, compartment: c}]
+reactions:
+  - {id: R, equation: a -> b, reaction_energy: {value: -3, at: {ph: 7}}}
+",
+    )
+    .unwrap();
+    let error = Project::load(&path).unwrap_err().to_string();
+    assert!(
+        error.contains("applies to a metabolite's formation_energy only"),
+        "{error}"
+    );
+}

@@ -4,7 +4,7 @@
 //! reversible reaction whose ΔG' never changes sign is a note (it could be
 //! declared irreversible).
 
-use super::{kj, range_evidence, Check};
+use super::{copy_caveat, kj, range_evidence, Check};
 use crate::analysis::Analysis;
 use crate::report::{Finding, Severity, Verdict};
 
@@ -47,9 +47,10 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                     subjects: vec![r.id.clone()],
                     scenario: None,
                     message: format!(
-                        "bounds allow {name} flux, but ΔG' in that direction stays at or above {} for every allowed concentration (uncertainty allowance {})",
+                        "bounds allow {name} flux, but ΔG' in that direction stays at or above {} for every allowed concentration (uncertainty allowance {}){}",
                         kj(best),
-                        kj(allowance)
+                        kj(allowance),
+                        copy_caveat(analysis, j)
                     ),
                     evidence: range_evidence(analysis, j),
                 }),
@@ -59,9 +60,10 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                     subjects: vec![r.id.clone()],
                     scenario: None,
                     message: format!(
-                        "the only allowed direction ({name}) has at best ΔG' = {}, within the uncertainty allowance ({}) plus the minimum driving force",
+                        "the only allowed direction ({name}) has at best ΔG' = {}, within the uncertainty allowance ({}) plus the minimum driving force{}",
                         kj(best),
-                        kj(allowance)
+                        kj(allowance),
+                        copy_caveat(analysis, j)
                     ),
                     evidence: range_evidence(analysis, j),
                 }),
@@ -79,9 +81,10 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                     subjects: vec![r.id.clone()],
                     scenario: None,
                     message: format!(
-                        "declared reversible, but ΔG' ranges from {} to {}: it can only run {way}; consider constraining its bounds",
+                        "declared reversible, but ΔG' ranges from {} to {}: it can only run {way}; consider constraining its bounds{}",
                         kj(t.range.min),
-                        kj(t.range.max)
+                        kj(t.range.max),
+                        copy_caveat(analysis, j)
                     ),
                     evidence: range_evidence(analysis, j),
                 });

@@ -6,6 +6,7 @@ use crate::report::Finding;
 
 pub mod balance;
 pub mod bounds_audit;
+pub mod copied_energy;
 pub mod energy_cycles;
 pub mod internal_loops;
 pub mod missing_energy;
@@ -25,6 +26,7 @@ pub struct Check {
 /// Every check, in the order the overview lists them.
 pub const REGISTRY: &[Check] = &[
     balance::CHECK,
+    copied_energy::CHECK,
     bounds_audit::CHECK,
     scenario_directions::CHECK,
     missing_energy::CHECK,
@@ -56,6 +58,27 @@ pub(crate) fn range_evidence(
         ]),
         Err(_) => Default::default(),
     }
+}
+
+/// What a verdict on reaction `j` must add when its ΔrG'° rests on a ΔfG'°
+/// copied into compartments of different conditions (empty otherwise).
+pub(crate) fn copy_caveat(analysis: &Analysis, j: usize) -> String {
+    let Some(copy) = analysis.copied_energy_behind(j) else {
+        return String::new();
+    };
+    let ids: Vec<String> = copy
+        .metabolites
+        .iter()
+        .map(|&i| format!("`{}`", analysis.model.metabolites[i].id))
+        .collect();
+    let size = match copy.possible_error_kj {
+        Some(e) => format!(", so ΔrG'° may be off by up to {}", kj(e)),
+        None => String::new(),
+    };
+    format!(
+        " — caution: built on one ΔfG'° copied unconverted into compartments of different conditions ({}){size}",
+        ids.join(", ")
+    )
 }
 
 /// "−12.34 kJ/mol" with a real minus sign, for messages.

@@ -1,7 +1,7 @@
 //! Flux scenarios against thermodynamics: every reaction carrying flux in a
 //! scenario needs ΔG' < 0 in the direction of that flux.
 
-use super::{kj, range_evidence, Check};
+use super::{copy_caveat, kj, range_evidence, Check};
 use crate::analysis::Analysis;
 use crate::report::{Finding, Severity, Verdict};
 
@@ -43,18 +43,20 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                     "scenario-contradiction",
                     Severity::Error,
                     format!(
-                        "carries {name} flux {flux} but ΔG' in that direction is at best {} (uncertainty allowance {})",
+                        "carries {name} flux {flux} but ΔG' in that direction is at best {} (uncertainty allowance {}){}",
                         kj(best),
-                        kj(allowance)
+                        kj(allowance),
+                        copy_caveat(analysis, j)
                     ),
                 ),
                 Verdict::Marginal => (
                     "scenario-marginal",
                     Severity::Warning,
                     format!(
-                        "carries {name} flux {flux} with at best ΔG' = {}: feasible only near the concentration bounds or within the uncertainty ({})",
+                        "carries {name} flux {flux} with at best ΔG' = {}: feasible only near the concentration bounds or within the uncertainty ({}){}",
                         kj(best),
-                        kj(allowance)
+                        kj(allowance),
+                        copy_caveat(analysis, j)
                     ),
                 ),
                 _ => continue,

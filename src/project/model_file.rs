@@ -10,7 +10,7 @@ use super::units::{self, Kind, RawQuantity};
 use crate::error::Diagnostic;
 use crate::model::{
     Compartment, Energy, Metabolite, Model, Range, Reaction, Role, Scenario, Special, Species,
-    SpeciesData, DEFAULT_FLUX_BOUND,
+    SpeciesData, StatedConditions, DEFAULT_FLUX_BOUND,
 };
 use crate::thermo::constants::T_STANDARD_K;
 use std::collections::{BTreeMap, HashMap};
@@ -101,11 +101,66 @@ impl Reporter<'_, '_> {
                 return None;
             }
         }
+        let at = match &raw.at {
+            Some(at) => {
+                let mut at_path = segments.to_vec();
+                at_path.push(Segment::Key("at".into()));
+                Some(self.stated_conditions(at, &at_path)?)
+            }
+            None => None,
+        };
         Some(Energy {
             value_kj: value?,
             sigma_kj: sigma?,
             source: raw.source.clone().unwrap_or_default(),
-            at: None,
+            at,
+        })
+    }
+
+    /// `at: {ph, ionic_strength, temperature}` of a formation energy.
+    fn stated_conditions(
+        &mut self,
+        raw: &super::schema::RawStatedConditions,
+        segments: &[Segment],
+    ) -> Option<StatedConditions> {
+        let path = |key: &str| {
+            let mut p = segments.to_vec();
+            p.push(Segment::Key(key.into()));
+            p
+        };
+        let mut ok = true;
+        let mut read = |q: &Option<RawQuantity>, kind: Kind, key: &str| match q {
+            Some(q) => {
+                let v = self.quantity(q, kind, &path(key));
+                ok &= v.is_some();
+                v
+            }
+            None => None,
+        };
+        let ph = read(&raw.ph, Kind::Plain, "ph");
+        let ionic = read(&raw.ionic_strength, Kind::IonicStrength, "ionic_strength");
+        let temperature = read(&raw.temperature, Kind::Temperature, "temperature");
+        if !ok {
+            return None;
+        }
+        if let Some(i) = ionic.filter(|&i| i < 0.0) {
+            self.at(
+                &path("ionic_strength"),
+                format!("ionic strength must not be negative, found {i} M"),
+            );
+            return None;
+        }
+        if let Some(t) = temperature.filter(|&t| t <= 0.0) {
+            self.at(
+                &path("temperature"),
+                format!("temperature must be above 0 K, found {t} K"),
+            );
+            return None;
+        }
+        Some(StatedConditions {
+            ph,
+            ionic_strength_m: ionic,
+            temperature_k: temperature,
         })
     }
 
@@ -768,6 +823,14 @@ fn reaction(
         },
     };
     let drg_prime = match &raw.reaction_energy {
+        Some(e) if e.at.is_some() => {
+            r.at(
+                &[sub("reaction_energy"), vec![Segment::Key("at".into())]].concat(),
+                "`at` (conditions a value was stated at) applies to a metabolite's formation_energy only; give a reaction energy at the reaction's own conditions".to_string(),
+            );
+            ok = false;
+            None
+        }
         Some(e) => match r.energy(e, &sub("reaction_energy")) {
             Some(e) => Some(e),
             None => {

@@ -48,6 +48,16 @@ pub struct RawEnergy {
     pub value: RawQuantity,
     pub sigma: Option<RawQuantity>,
     pub source: Option<String>,
+    /// Conditions a ΔfG'° was stated at (formation energies only).
+    pub at: Option<RawStatedConditions>,
+}
+
+/// `at: {ph, ionic_strength, temperature}`: any subset.
+#[derive(Debug, Clone, serde::Deserialize)]
+pub struct RawStatedConditions {
+    pub ph: Option<RawQuantity>,
+    pub ionic_strength: Option<RawQuantity>,
+    pub temperature: Option<RawQuantity>,
 }
 
 #[derive(Debug, Clone, serde::Deserialize)]
@@ -194,6 +204,11 @@ pub fn expected_fields(kind: FileKind, path: &[Segment]) -> Option<&'static [&'s
         (FileKind::Model, [a, Index(_)]) if k(a, "metabolites") => fields_of::<RawMetabolite>(),
         (FileKind::Model, [a, Index(_), b]) if k(a, "metabolites") && k(b, "formation_energy") => {
             fields_of::<RawEnergy>()
+        }
+        (FileKind::Model, [a, Index(_), b, c])
+            if k(a, "metabolites") && k(b, "formation_energy") && k(c, "at") =>
+        {
+            fields_of::<RawStatedConditions>()
         }
         (FileKind::Model, [a, Index(_), b]) if k(a, "metabolites") && k(b, "concentration") => {
             fields_of::<RawRange>()

@@ -252,6 +252,19 @@ fn energy(e: &Energy) -> String {
     if !e.source.is_empty() {
         f.str("source", &e.source);
     }
+    if let Some(at) = &e.at {
+        let mut a = Flow::default();
+        if let Some(ph) = at.ph {
+            a.raw("ph", n(ph));
+        }
+        if let Some(i) = at.ionic_strength_m {
+            a.raw("ionic_strength", format!("{} M", n(i)));
+        }
+        if let Some(t) = at.temperature_k {
+            a.raw("temperature", format!("{} K", n(t)));
+        }
+        f.raw("at", a.finish());
+    }
     f.finish()
 }
 

@@ -287,7 +287,8 @@ pub struct MetaboliteView {
     pub charge: Option<i32>,
     /// ΔfG'° at the compartment's conditions, when known.
     pub dfg_prime: Option<EnergyView>,
-    /// Where `dfg_prime` came from: "model", "species", "library".
+    /// Where `dfg_prime` came from: "model", "model-converted", "species",
+    /// "library", "fixed".
     pub energy_origin: Option<String>,
     pub concentration_m: RangeView,
     /// True when the range is the project default, not the metabolite's own.

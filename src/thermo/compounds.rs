@@ -90,7 +90,7 @@ fn keys(model: &Model, thermo: &[MetaboliteThermo], i: usize) -> Vec<Key> {
             })
             .into_iter()
             .collect(),
-        "model" => {
+        "model" | "model-converted" => {
             let Some(e) = &m.dfg_prime else {
                 return Vec::new();
             };

@@ -1,8 +1,12 @@
 //! Where a metabolite's ΔfG'° comes from, resolved once per metabolite.
 //!
 //! Order (a model value always wins over the library):
-//! 1. `formation_energy` given in the model (taken as valid at the
-//!    compartment's conditions);
+//! 1. `formation_energy` given in the model: valid at the compartment's
+//!    conditions, or, when it says `at: {ph, ionic_strength, temperature}`,
+//!    moved from those conditions to the compartment's (exactly with
+//!    species data, else as one species with the formula's H count and the
+//!    charge; a different temperature cannot be bridged without ΔfH°, so
+//!    such a value is not used and the metabolite page says why);
 //! 2. `species` data given in the model, transformed with Alberty's method
 //!    at the compartment's pH, ionic strength, temperature (and pMg);
 //! 3. the built-in library, by the `library:` key or by cross-reference
@@ -12,7 +16,7 @@
 
 use super::legendre::{Conditions, ReactantState, Transform};
 use super::library::{self, LibraryEntry};
-use crate::model::{Model, Special, Species};
+use crate::model::{Model, Special, Species, StatedConditions};
 
 /// σ assigned to library values, kJ/mol. The printed tables carry no
 /// uncertainty; 0.5 kJ/mol is our allowance for the rounding and the
@@ -24,7 +28,8 @@ pub const LIBRARY_SIGMA_KJ: f64 = 0.5;
 pub struct MetaboliteEnergy {
     pub value_kj: f64,
     pub sigma_kj: f64,
-    /// "model", "species", "library" or "fixed" (H+).
+    /// "model", "model-converted" (a model value moved from the conditions
+    /// it was stated at), "species", "library" or "fixed" (H+).
     pub origin: &'static str,
     pub source: String,
 }
@@ -71,7 +76,10 @@ pub fn resolve(model: &Model, i: usize) -> MetaboliteThermo {
         });
         return out;
     }
-    if let Some(e) = &m.dfg_prime {
+    // A model value stated at other conditions that cannot be moved here:
+    // no ΔfG'° at all rather than a wrong one (or another source's).
+    let mut unusable_model_value = false;
+    if let (Some(e), None) = (&m.dfg_prime, e_at(m)) {
         out.energy = Some(MetaboliteEnergy {
             value_kj: e.value_kj,
             sigma_kj: e.sigma_kj,
@@ -97,8 +105,25 @@ pub fn resolve(model: &Model, i: usize) -> MetaboliteThermo {
             "library",
             provenance_lines(entry),
         ),
-        (None, None) => return out,
+        (None, None) => {
+            if let (Some(e), Some(at)) = (&m.dfg_prime, e_at(m)) {
+                match converted(model, i, e, at, conditions, None) {
+                    Ok(energy) => out.energy = Some(energy),
+                    Err(problem) => out.problem = Some(problem),
+                }
+            }
+            return out;
+        }
     };
+    if let (Some(e), Some(at)) = (&m.dfg_prime, e_at(m)) {
+        match converted(model, i, e, at, conditions, Some(&species)) {
+            Ok(energy) => out.energy = Some(energy),
+            Err(problem) => {
+                out.problem = Some(problem);
+                unusable_model_value = true;
+            }
+        }
+    }
     let state = Transform::new(conditions).and_then(|t| t.reactant(&species));
     match state {
         Ok(state) => {
@@ -119,12 +144,113 @@ pub fn resolve(model: &Model, i: usize) -> MetaboliteThermo {
             });
         }
         Err(e) => {
-            if out.energy.is_none() {
+            if out.energy.is_none() && !unusable_model_value {
                 out.problem = Some(format!("species data cannot be transformed: {e}"));
             }
         }
     }
+    if unusable_model_value {
+        out.energy = None;
+    }
     out
+}
+
+/// The conditions a model ΔfG'° was stated at, when it says so.
+fn e_at(m: &crate::model::Metabolite) -> Option<StatedConditions> {
+    m.dfg_prime.as_ref().and_then(|e| e.at)
+}
+
+/// A model ΔfG'° stated at `at` (unset parts: the compartment's), moved to
+/// the compartment's `here` conditions. With species data the move is exact
+/// (the difference of the reactant's transform at both conditions);
+/// without, the compound is taken as one species with the formula's H count
+/// and its charge (Jol et al., Biophys. J. 99 (2010) 3139).
+fn converted(
+    model: &Model,
+    i: usize,
+    e: &crate::model::Energy,
+    at: StatedConditions,
+    here: Conditions,
+    species: Option<&[Species]>,
+) -> Result<MetaboliteEnergy, String> {
+    let m = &model.metabolites[i];
+    let stated = Conditions {
+        ph: at.ph.unwrap_or(here.ph),
+        ionic_strength_m: at.ionic_strength_m.unwrap_or(here.ionic_strength_m),
+        temperature_k: at.temperature_k.unwrap_or(here.temperature_k),
+        pmg: here.pmg,
+    };
+    let describe = |c: &Conditions| {
+        format!(
+            "pH {:.2}, I = {:.3} M, {:.2} K",
+            c.ph, c.ionic_strength_m, c.temperature_k
+        )
+    };
+    if (stated.temperature_k - here.temperature_k).abs() > 1e-6 {
+        return Err(format!(
+            "formation_energy of `{}` is stated at {:.2} K but its compartment is at {:.2} K: a ΔfG'° alone cannot be moved to another temperature (that needs ΔfH°), so it is not used; give species data with ΔfH° or a value at {:.2} K",
+            m.id, stated.temperature_k, here.temperature_k, here.temperature_k
+        ));
+    }
+    let (from, to) = match (Transform::new(stated), Transform::new(here)) {
+        (Ok(a), Ok(b)) => (a, b),
+        (Err(err), _) | (_, Err(err)) => {
+            return Err(format!(
+                "formation_energy of `{}` cannot be moved: {err}",
+                m.id
+            ))
+        }
+    };
+    let exact = species
+        .and_then(|sp| Some(to.reactant_dfg_prime(sp).ok()? - from.reactant_dfg_prime(sp).ok()?));
+    let (shift, how) = match exact {
+        Some(shift) => (shift, "from its species data"),
+        None => {
+            let hydrogens = m
+                .formula
+                .as_deref()
+                .and_then(|f| crate::chem::parse_formula(f).ok())
+                .filter(|f| f.is_exact())
+                .map(|f| f.count("H") as f64);
+            match (hydrogens, m.charge) {
+                (Some(h), Some(z)) => (
+                    // Same temperature checked above, so this is Some.
+                    to.single_species_shift(&from, h, f64::from(z))
+                        .unwrap_or(0.0),
+                    "as one species with the formula's H count and the charge",
+                ),
+                _ => {
+                    if stated == here {
+                        (0.0, "no change needed")
+                    } else {
+                        return Err(format!(
+                            "formation_energy of `{}` is stated at {} but its compartment is at {}; moving it needs the formula and charge (or species data), which are missing, so it is not used",
+                            m.id,
+                            describe(&stated),
+                            describe(&here)
+                        ));
+                    }
+                }
+            }
+        }
+    };
+    let source = if e.source.is_empty() {
+        String::new()
+    } else {
+        format!("{}; ", e.source)
+    };
+    Ok(MetaboliteEnergy {
+        value_kj: e.value_kj + shift,
+        sigma_kj: e.sigma_kj,
+        origin: "model-converted",
+        source: format!(
+            "{source}{:.2} kJ/mol stated at {}, moved to this compartment's {} ({how}): {:+.2} kJ/mol",
+            e.value_kj,
+            describe(&stated),
+            describe(&here),
+            shift
+        ),
+    })
 }
 
 /// The library entry for a metabolite: explicit key, else cross-references,

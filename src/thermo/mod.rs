@@ -4,6 +4,7 @@
 
 pub mod compounds;
 pub mod constants;
+pub mod copies;
 pub mod errors;
 pub mod reaction;
 
