@@ -299,7 +299,12 @@ impl<'a> Analysis<'a> {
             .iter()
             .map(|&(i, c)| {
                 let m = &self.model.metabolites[i];
-                let in_q = m.special == Special::None;
+                // Water, H+ (fixed by pH) and free Mg²⁺ fixed by pMg.
+                let fixed = self.metabolites[i]
+                    .energy
+                    .as_ref()
+                    .is_some_and(|e| e.origin == "fixed-pmg");
+                let in_q = m.special == Special::None && !fixed;
                 Participant {
                     coefficient: c,
                     concentration: in_q.then(|| self.concentration(i)),

@@ -262,3 +262,59 @@ reactions:
         "{error}"
     );
 }
+
+/// MgHPO4 → HPO4²⁻ + Mg²⁺ at pH 7, pMg 3, I = 0.25 M, 298.15 K. Alberty 2003
+/// (Problem 6.8, printed p. 334) gives the transformed species values
+/// ΔfG'°(HPO4²⁻) = −1058.57 and ΔfG'°(MgHPO4) = −1050.44 kJ/mol; with free
+/// Mg²⁺ fixed by pMg (transformed ΔfG'° 0, as H+ by pH) ΔrG'° = −8.13 kJ/mol.
+/// Species data: ΔfG°(HPO4²⁻) = −1096.1 (printed p. 333); MgHPO4 from pK
+/// 2.71 (Table 1.2, p. 7) with ΔfG°(Mg²⁺) = −455.3 (from memory; it cancels).
+#[test]
+fn free_magnesium_is_fixed_by_pmg() {
+    let rt_ln10_book = 8.31451e-3 * 298.15 * std::f64::consts::LN_10;
+    let mghpo4 = -455.3 - 1096.1 - rt_ln10_book * 2.71;
+    let report = analyse(&format!(
+        "id: t
+compartments: [{{id: c, ph: 7, pmg: 3, ionic_strength: 0.25 M}}]
+metabolites:
+  - {{id: mghpo4_c, compartment: c,
+     species: {{sigma: 0.5, source: book, forms: [{{dfg0: {mghpo4}, charge: 0, hydrogens: 1, magnesium: 1}}]}}}}
+  - {{id: hpo4_c, compartment: c,
+     species: {{sigma: 0.5, source: book, forms: [{{dfg0: -1096.1, charge: -2, hydrogens: 1}}]}}}}
+  - {{id: mg2_c, compartment: c, library: magnesium}}
+reactions:
+  - {{id: MGDISS, equation: mghpo4_c <-> hpo4_c + mg2_c}}
+"
+    ));
+    let mg = report.metabolites.iter().find(|m| m.id == "mg2_c").unwrap();
+    assert_eq!(mg.energy_origin.as_deref(), Some("fixed-pmg"));
+    assert_eq!(mg.dfg_prime.as_ref().unwrap().value_kj, 0.0);
+    let r = report.reactions.iter().find(|r| r.id == "MGDISS").unwrap();
+    let drg = r.drg_prime.as_ref().unwrap().value_kj;
+    // CODATA R instead of the book's moves the result by < 0.005 kJ/mol.
+    assert!((drg - (-1058.57 - -1050.44)).abs() < 0.01, "{drg}");
+    // Mg²⁺ is left out of Q: the ΔG' range spans the two other metabolites'
+    // default ranges (1 µM – 10 mM, four decades each) only.
+    let rt = 8.314_462_618_153_24e-3 * 298.15;
+    let range = r.dg_range.unwrap();
+    assert!(
+        ((range.max - range.min) - 2.0 * rt * 1e4f64.ln()).abs() < 1e-9,
+        "{range:?}"
+    );
+}
+
+#[test]
+fn pmg_away_from_298_k_is_refused_when_loading() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("model.yaml");
+    std::fs::write(
+        &path,
+        "id: t\ntemperature: 37 °C\ncompartments: [{id: c, pmg: 3}]\nmetabolites: [{id: a, compartment: c}]\nreactions: []\n",
+    )
+    .unwrap();
+    let error = Project::load(&path).unwrap_err().to_string();
+    assert!(
+        error.contains("pMg is supported at 298.15 K only") && error.contains("310.15 K"),
+        "{error}"
+    );
+}

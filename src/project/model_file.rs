@@ -267,6 +267,26 @@ pub fn build(
                 continue;
             }
             match compartment(&mut r, raw, &here) {
+                Some(c)
+                    if c.pmg.is_some()
+                        && (c.temperature_k.unwrap_or(model.temperature_k) - T_STANDARD_K)
+                            .abs()
+                            > 1e-6 =>
+                {
+                    let t = c.temperature_k.unwrap_or(model.temperature_k);
+                    let d = r.at(
+                        &[here.clone(), vec![Segment::Key("pmg".into())]].concat(),
+                        format!(
+                            "pMg is supported at 298.15 K only, but compartment `{}` is at {t} K: gibbsite's printed sources give no ΔfH° for Mg²⁺ and its complexes, so the Mg part of the transform cannot be moved to another temperature",
+                            c.id
+                        ),
+                    );
+                    d.hint = Some(
+                        "remove `pmg` (Mg complexes are then left out) or set the temperature to 25 °C"
+                            .into(),
+                    );
+                    compartment_ids.insert(raw.id.clone(), INVALID);
+                }
                 Some(c) => {
                     compartment_ids.insert(c.id.clone(), model.compartments.len());
                     model.compartments.push(c);

@@ -288,7 +288,7 @@ pub struct MetaboliteView {
     /// ΔfG'° at the compartment's conditions, when known.
     pub dfg_prime: Option<EnergyView>,
     /// Where `dfg_prime` came from: "model", "model-converted", "species",
-    /// "library", "fixed".
+    /// "library", "fixed" (H+), "fixed-pmg" (free Mg²⁺).
     pub energy_origin: Option<String>,
     pub concentration_m: RangeView,
     /// True when the range is the project default, not the metabolite's own.

@@ -13,7 +13,9 @@
 //!
 //! With a pMg the transform is also taken with respect to free Mg²⁺ (Alberty
 //! 2003, chapter on Mg²⁺ binding; written here from memory and checked
-//! against the printed MgHPO4 value of p. 334):
+//! against the printed MgHPO4 value of p. 334), at 298.15 K only: our
+//! printed references give no ΔfH° for Mg²⁺ or its complexes, so a pMg at
+//! another temperature is refused ([`TransformError::PmgTemperature`]):
 //!
 //! ```text
 //! ΔfG'°_j = ΔfG°_j(T) − nH_j·RT·ln(10^−pH) − nMg_j·(ΔfG°(Mg²⁺, T) + RT·ln(10^−pMg))
@@ -44,15 +46,12 @@ pub const RT_ALPHA_298_KJ: f64 = 2.91482;
 pub const R_ALBERTY_2003_KJ: f64 = 8.31451e-3;
 
 /// ΔfG° of Mg²⁺ at 298.15 K and I = 0, kJ/mol. From memory of Alberty's species
-/// tables; confirmed because with pK 2.71 of MgHPO4 (Alberty 2003, Table 1.2,
-/// p. 7) it reproduces the printed ΔfG'°(MgHPO4) = −1050.44 kJ/mol at pH 7,
-/// pMg 3, I = 0.25 M (p. 334) to 0.001 kJ/mol (see tests).
+/// tables and NOT confirmed by any printed check: it cancels from every value
+/// gibbsite computes from its library (the Mg complexes are derived from it
+/// with printed pKs, and free Mg²⁺ is fixed by the pMg), so no printed
+/// transformed value can test it. It matters only for Mg complexes whose ΔfG°
+/// a user takes from another table.
 pub const MG_DFG0_KJ: f64 = -455.3;
-
-/// ΔfH° of Mg²⁺ at 298.15 K and I = 0, kJ/mol. From memory of Alberty's species
-/// tables, NOT confirmed by a printed check; used only for a pMg transform away
-/// from 298.15 K.
-pub const MG_DFH0_KJ: f64 = -467.0;
 
 /// Temperatures closer than this to 298.15 K count as 298.15 K (the book's
 /// tabulated RTα applies and ΔfH° is not needed).
@@ -120,6 +119,11 @@ impl Conditions {
             if !pmg.is_finite() {
                 return bad("pMg", pmg, "a finite number");
             }
+            if !is_standard_temperature(self.temperature_k) {
+                return Err(TransformError::PmgTemperature {
+                    temperature_k: self.temperature_k,
+                });
+            }
         }
         Ok(())
     }
@@ -143,6 +147,11 @@ pub enum TransformError {
         charge: i32,
         hydrogens: u32,
     },
+    #[error(
+        "pMg is supported at 298.15 K only (no printed ΔfH° of Mg²⁺ and its complexes in our \
+         sources), but the temperature is {temperature_k} K"
+    )]
+    PmgTemperature { temperature_k: f64 },
     #[error(
         "species {index} (charge {charge}, {hydrogens} H) has no ΔfH°, which is needed at \
          {temperature_k} K (only 298.15 K works without it)"
@@ -294,15 +303,10 @@ impl Transform {
 
     /// ΔfG°(Mg²⁺, T) + RT·ln(10^−pMg), kJ/mol: what the transform subtracts
     /// per bound Mg (besides the ionic-strength part); `None` without a pMg.
+    /// Only at 298.15 K (`Conditions::validate` refuses a pMg elsewhere).
     fn magnesium_term(&self) -> Option<f64> {
         let pmg = self.conditions.pmg?;
-        let ratio = self.conditions.temperature_k / T_STANDARD_K;
-        let dfg0 = if is_standard_temperature(self.conditions.temperature_k) {
-            MG_DFG0_KJ
-        } else {
-            ratio * MG_DFG0_KJ + (1.0 - ratio) * MG_DFH0_KJ
-        };
-        Some(dfg0 - self.rt() * std::f64::consts::LN_10 * pmg)
+        Some(MG_DFG0_KJ - self.rt() * std::f64::consts::LN_10 * pmg)
     }
 
     /// ΔfG° of a species at the transform's T and I, not transformed
@@ -537,15 +541,22 @@ pub(crate) mod tests {
     }
 
     #[test]
-    fn atp_reactant_at_ph7_matches_reference() {
-        // ΔfG'°(ATP, pH 7, I = 0.25 M) = −2292.50 kJ/mol: Alberty 2003 Table 4.2
-        // value as quoted in the reference README (species_confirmed.csv note).
-        let conditions = Conditions::new(7.0, 0.25, 298.15);
-        let value = book(conditions).reactant_dfg_prime(&atp()).unwrap();
-        assert!((value - -2292.50).abs() < 0.005, "{value}");
-        // CODATA R: −2292.5009, within 0.01 kJ/mol of the printed value.
-        let value = reactant_dfg_prime(&atp(), &conditions).unwrap();
-        assert!((value - -2292.50).abs() < 0.01, "{value}");
+    fn atp4_species_at_ionic_strength_matches_alberty_p260() {
+        // Alberty 2003, Problem 3.1, printed p. 260, gives the ATP4− species
+        // function as ΔfG°(I) = −2768.1 − 46.6371·√I/(1 + 1.6√I) kJ/mol at
+        // 298.15 K (species_dfG0.csv): 46.6371 = RTα·z² = 2.91482 × 16.
+        // Evaluated at I = 0.1 and 0.25 M it must equal our species term.
+        let atp4 = &atp()[0];
+        for ionic_strength in [0.0, 0.1, 0.25] {
+            let t = book(Conditions::new(7.0, ionic_strength, 298.15));
+            let ours = t.species_dfg_at_ionic_strength(atp4, 0).unwrap();
+            let root = f64::sqrt(ionic_strength);
+            let printed = -2768.1 - 46.6371 * root / (1.0 + 1.6 * root);
+            assert!(
+                (ours - printed).abs() < 1e-4,
+                "I {ionic_strength}: {ours} vs {printed}"
+            );
+        }
     }
 
     #[test]
@@ -564,10 +575,13 @@ pub(crate) mod tests {
         // MgHPO4 = Mg²⁺ + HPO4²⁻ has pK 2.71 at I = 0 (Alberty 2003, Table 1.2,
         // p. 7), so ΔfG°(MgHPO4) = ΔfG°(Mg²⁺) + ΔfG°(HPO4²⁻) − RT ln10·2.71.
         // Transformed at pH 7, pMg 3, I = 0.25 M the book prints −1050.44 kJ/mol
-        // (Problem 6.8, p. 334). This checks the Mg extension and MG_DFG0_KJ.
+        // (Problem 6.8, p. 334). This checks the Mg part of the transform (the
+        // pMg term and the −4·nMg ionic weight) and the pK; it does NOT check
+        // ΔfG°(Mg²⁺), which cancels: any value gives the same result, shown
+        // below with a deliberately wrong one.
         let rt_ln10 = R_ALBERTY_2003_KJ * 298.15 * std::f64::consts::LN_10;
-        let mghpo4 = Species {
-            dfg0_kj: MG_DFG0_KJ - 1096.1 - rt_ln10 * 2.71,
+        let mghpo4 = |mg_dfg0: f64| Species {
+            dfg0_kj: mg_dfg0 - 1096.1 - rt_ln10 * 2.71,
             dfh0_kj: None,
             charge: 0,
             hydrogens: 1,
@@ -576,12 +590,45 @@ pub(crate) mod tests {
         let mut conditions = Conditions::new(7.0, 0.25, 298.15);
         conditions.pmg = Some(3.0);
         let t = book(conditions);
-        let value = t.species_dfg_prime(&mghpo4, 0).unwrap();
+        let value = t.species_dfg_prime(&mghpo4(MG_DFG0_KJ), 0).unwrap();
         assert!((value - -1050.44).abs() < 0.005, "{value}");
+        // The transform subtracts ΔfG°(Mg²⁺) once per bound Mg: a species whose
+        // ΔfG° was derived with another Mg value moves by exactly that much.
+        let shifted = t.species_dfg_prime(&mghpo4(MG_DFG0_KJ + 10.0), 0).unwrap();
+        assert!((shifted - value - 10.0).abs() < 1e-9);
         // Species without Mg are unaffected by pMg (p. 334 prints −1058.57 for
         // HPO4²⁻ at pMg 3 as well).
         let hpo4 = t.species_dfg_prime(&phosphate()[0], 0).unwrap();
         assert!((hpo4 - -1058.57).abs() < 0.005, "{hpo4}");
+        // The printed difference −1058.57 − (−1050.44) = −8.13 kJ/mol is the
+        // transformed ΔG'° of MgHPO4 → HPO4²⁻ + Mg²⁺ with Mg²⁺ fixed by pMg 3;
+        // the same from pK: RT ln10·(pK(I = 0.25) − pMg) with the I = 0.25 M
+        // correction of Σνz² = 8 (arithmetic of the book's formula).
+        let pk_i = 2.71 - RT_ALPHA_298_KJ * debye_huckel_factor(0.25) * 8.0 / rt_ln10;
+        assert!((rt_ln10 * (pk_i - 3.0) - (hpo4 - value)).abs() < 1e-9);
+        assert!(((hpo4 - value) - -8.13).abs() < 0.01);
+    }
+
+    #[test]
+    fn pmg_away_from_298_is_refused() {
+        // No printed ΔfH° of Mg²⁺ or its complexes in our sources: pMg only at
+        // 298.15 K, with a clear error elsewhere.
+        let mut c = Conditions::new(7.0, 0.25, 310.15);
+        c.pmg = Some(3.0);
+        let err = Transform::new(c).unwrap_err();
+        assert_eq!(
+            err,
+            TransformError::PmgTemperature {
+                temperature_k: 310.15
+            }
+        );
+        assert!(err
+            .to_string()
+            .contains("pMg is supported at 298.15 K only"));
+        c.temperature_k = 298.15;
+        assert!(Transform::new(c).is_ok());
+        // Without a pMg other temperatures stay fine.
+        assert!(Transform::new(Conditions::new(7.0, 0.25, 310.15)).is_ok());
     }
 
     #[test]

@@ -10,7 +10,9 @@
 //! *Thermodynamics of Biochemical Reactions* (Wiley, 2003), derived from
 //! printed values (the derivation is stated), or recalled from memory of the
 //! book's species tables AND confirmed by reproducing printed values (stated
-//! too). Cross references are well-known identifiers recalled from memory.
+//! too). One exception, stated in its row: ΔfG°(Mg²⁺), from memory and
+//! unconfirmable because it cancels from every value computed from the
+//! library. Cross references are well-known identifiers recalled from memory.
 
 use std::collections::{BTreeMap, BTreeSet};
 use std::sync::OnceLock;

@@ -12,7 +12,8 @@
 //! 3. the built-in library, by the `library:` key or by cross-reference
 //!    (water is matched by its role too), transformed the same way.
 //!
-//! H+ is fixed by the pH: its transformed ΔfG'° is 0 by definition.
+//! H+ is fixed by the pH: its transformed ΔfG'° is 0 by definition; free
+//! Mg²⁺ likewise by the pMg where a compartment sets one.
 
 use super::legendre::{Conditions, ReactantState, Transform};
 use super::library::{self, LibraryEntry};
@@ -29,7 +30,8 @@ pub struct MetaboliteEnergy {
     pub value_kj: f64,
     pub sigma_kj: f64,
     /// "model", "model-converted" (a model value moved from the conditions
-    /// it was stated at), "species", "library" or "fixed" (H+).
+    /// it was stated at), "species", "library", "fixed" (H+) or "fixed-pmg"
+    /// (free Mg²⁺ where the compartment sets pMg).
     pub origin: &'static str,
     pub source: String,
 }
@@ -73,6 +75,17 @@ pub fn resolve(model: &Model, i: usize) -> MetaboliteThermo {
             sigma_kj: 0.0,
             origin: "fixed",
             source: "H+ is fixed by the compartment pH (transformed ΔfG'° = 0)".into(),
+        });
+        return out;
+    }
+    if compartment.pmg.is_some() && is_free_magnesium(model, i, library_entry) {
+        out.energy = Some(MetaboliteEnergy {
+            value_kj: 0.0,
+            sigma_kj: 0.0,
+            origin: "fixed-pmg",
+            source:
+                "free Mg²⁺ is fixed by the compartment's pMg (transformed ΔfG'° = 0, left out of Q)"
+                    .into(),
         });
         return out;
     }
@@ -153,6 +166,22 @@ pub fn resolve(model: &Model, i: usize) -> MetaboliteThermo {
         out.energy = None;
     }
     out
+}
+
+/// Free Mg²⁺: the library's entry, formula `Mg` with charge +2, or species
+/// data of that one species. Where a compartment sets pMg it is fixed like
+/// H+ by the pH (Alberty 2003): its transformed chemical potential is 0.
+pub fn is_free_magnesium(model: &Model, i: usize, entry: Option<&LibraryEntry>) -> bool {
+    let m = &model.metabolites[i];
+    if entry.is_some_and(|e| e.key == "magnesium") {
+        return true;
+    }
+    if m.formula.as_deref().map(str::trim) == Some("Mg") && m.charge == Some(2) {
+        return true;
+    }
+    m.species.as_ref().is_some_and(|d| {
+        matches!(d.species.as_slice(), [s] if s.magnesium == 1 && s.hydrogens == 0 && s.charge == 2)
+    })
 }
 
 /// The conditions a model ΔfG'° was stated at, when it says so.
