@@ -318,3 +318,71 @@ fn pmg_away_from_298_k_is_refused_when_loading() {
         "{error}"
     );
 }
+
+fn finding<'a>(report: &'a Report, kind: &str, subject: &str) -> &'a gibbsite::report::Finding {
+    report
+        .findings
+        .iter()
+        .find(|f| f.kind == kind && f.subjects[0] == subject)
+        .unwrap_or_else(|| panic!("no {kind} for {subject}: {:#?}", report.findings))
+}
+
+/// ATP + H2O = ADP + Pi written without H+ (Alberty's transformed
+/// convention, e.g. Alberty 2003 p. 220) with BiGG-style species formulas:
+/// H and charge are both off by one H+, which the pH fixes. Not a reason
+/// to distrust ΔrG'° (the transformed ΔfG'° of H+ is 0 by definition).
+/// Across a membrane the same missing H+ does matter.
+#[test]
+fn missing_h_plus_is_harmless_inside_one_compartment_only() {
+    let model = |pi_compartment: &str| {
+        format!(
+            "id: t
+compartments: [{{id: c, ph: 7}}, {{id: e, ph: 6}}]
+metabolites:
+  - {{id: atp, compartment: c, formula: C10H12N5O13P3, charge: -4, library: atp}}
+  - {{id: h2o, compartment: c, formula: H2O, charge: 0, library: water}}
+  - {{id: adp, compartment: c, formula: C10H12N5O10P2, charge: -3, library: adp}}
+  - {{id: pi, compartment: {pi_compartment}, formula: HO4P, charge: -2, library: phosphate}}
+reactions:
+  - {{id: HYD, equation: atp + h2o -> adp + pi}}
+"
+        )
+    };
+    let report = analyse(&model("c"));
+    let f = finding(&report, "proton-only-imbalance", "HYD");
+    assert_eq!(f.severity, gibbsite::report::Severity::Note);
+    assert!(f.message.contains("H: -1, charge: -1"), "{}", f.message);
+    assert!(!f.message.contains("unreliable"), "{}", f.message);
+    assert!(report.findings.iter().all(|f| f.kind != "mass-imbalance"));
+    // Pi released outside: now the missing H+ decides the answer.
+    let report = analyse(&model("e"));
+    let f = finding(&report, "mass-imbalance", "HYD");
+    assert_eq!(f.severity, gibbsite::report::Severity::Warning);
+    assert!(
+        f.message.contains("spans compartments") && f.message.contains("unreliable"),
+        "{}",
+        f.message
+    );
+}
+
+/// Atoms balanced, a charge wrong: inside one compartment ΔrG'° from
+/// transformed formation energies does not use charges.
+#[test]
+fn a_wrong_charge_is_reported_for_what_it_affects() {
+    let report = analyse(
+        "id: t
+compartments: [{id: c}]
+metabolites:
+  - {id: a, compartment: c, formula: C3H3O3, charge: -1, formation_energy: {value: -300}}
+  - {id: b, compartment: c, formula: C3H3O3, charge: -2, formation_energy: {value: -310}}
+reactions:
+  - {id: R, equation: a -> b}
+",
+    );
+    let f = finding(&report, "charge-imbalance", "R");
+    assert!(
+        f.message.contains("not affected") && !f.message.contains("unreliable"),
+        "{}",
+        f.message
+    );
+}

@@ -10,7 +10,9 @@
 //!
 //! Kinds: `mass-imbalance` (warning; atoms differ, the message also gives
 //! the charge difference if any), `charge-imbalance` (warning; only the
-//! charge differs, or atoms could not be counted), `unbalance-unchecked`
+//! charge differs, or atoms could not be counted), `proton-only-imbalance`
+//! (note; only H+ differs inside one compartment, which the transformed
+//! convention allows: set by the analysis-aware `run`), `unbalance-unchecked`
 //! (note; a formula is missing, unreadable, has a generic group such as `R`
 //! or a repeat unit such as `(C5H8O4)n`, or a charge is missing).
 
@@ -89,30 +91,86 @@ pub const CHECK: super::Check = super::Check {
     slug: "balance",
     title: "Element and charge balance",
     description: "Every internal reaction must conserve atoms and charge (from formulas and charges); ΔG of an unbalanced reaction is meaningless.",
-    kinds: &["mass-imbalance", "charge-imbalance", "unbalance-unchecked"],
+    kinds: &[
+        "mass-imbalance",
+        "charge-imbalance",
+        "proton-only-imbalance",
+        "unbalance-unchecked",
+    ],
     run,
 };
 
-/// The balance findings, with the ones whose reaction got a ΔrG'° marked:
-/// that value is unreliable.
+/// The balance findings, worded for what an imbalance does to the reaction's
+/// ΔrG'°. In the transformed convention (Alberty 2003) H+ is fixed by the pH
+/// and biochemical equations are written without it: inside one compartment
+/// a difference of H+ alone (H and charge off by the same amount) changes
+/// nothing (transformed ΔfG'° of H+ is 0), so it is only a note. Across
+/// compartments the missing H+ must come from one side, and which side
+/// changes ΔrG'°. Charges do not enter Σ ν·ΔfG'° within one compartment; they
+/// do enter the electrical term of a membrane step.
 fn run(analysis: &crate::analysis::Analysis) -> Vec<Finding> {
-    let mut out = findings(analysis.model);
+    let model = analysis.model;
+    let mut out = findings(model);
     for f in &mut out {
         if f.kind != "mass-imbalance" && f.kind != "charge-imbalance" {
             continue;
         }
-        let Some(j) = analysis.model.reaction_index(&f.subjects[0]) else {
+        let Some(j) = model.reaction_index(&f.subjects[0]) else {
             continue;
         };
-        if let Ok(t) = &analysis.reaction_thermo[j] {
-            f.message.push_str(&format!(
-                "; its ΔrG'° ({:.2} kJ/mol) is unreliable until the equation is balanced",
-                t.drg0_kj
-            ));
-            f.evidence.insert("drg0".into(), t.drg0_kj);
+        let balance = reaction_imbalance(model, j);
+        let spans = spans_compartments(model, j);
+        let drg0 = analysis.reaction_thermo[j].as_ref().ok().map(|t| t.drg0_kj);
+        if let Some(g) = drg0 {
+            f.evidence.insert("drg0".into(), g);
+        }
+        let unreliable = |why: &str| match drg0 {
+            Some(g) => format!("; its ΔrG'° ({g:.2} kJ/mol) is unreliable until {why}"),
+            None => String::new(),
+        };
+        let h = balance.elements.get("H").copied().unwrap_or(0.0);
+        let protons_only = balance.elements.len() == 1
+            && h != 0.0
+            && balance.charge.is_some_and(|z| (z - h).abs() < TOLERANCE);
+        let id = &model.reactions[j].id;
+        if f.kind == "mass-imbalance" && protons_only && !spans {
+            f.kind = "proton-only-imbalance".into();
+            f.severity = Severity::Note;
+            f.message = format!(
+                "{id} balances except for H+ ({}): in the transformed convention H+ is fixed by the compartment's pH (transformed ΔfG'° 0), so its ΔrG'° is not affected; write the H+ if the model is meant to balance protons for flux analysis",
+                balance.text()
+            );
+        } else if f.kind == "mass-imbalance" && protons_only {
+            f.message.push_str(
+                "; only H+ is missing, but the reaction spans compartments: which compartment's H+ makes up the difference changes ΔrG'° by RT·ln 10 per pH unit between them plus the electrical term of its charge",
+            );
+            f.message
+                .push_str(&unreliable("the H+ is written in its compartment"));
+        } else if f.kind == "mass-imbalance" {
+            f.message.push_str(&unreliable("the equation is balanced"));
+        } else if balance.mass_checked() && !spans {
+            f.message.push_str(
+                "; the atoms balance, so a metabolite's charge is probably wrong; ΔrG'° from transformed formation energies does not use charges and is not affected",
+            );
+        } else if balance.mass_checked() {
+            f.message.push_str(
+                "; the atoms balance, but charge moved across a membrane enters the electrical term",
+            );
+            f.message.push_str(&unreliable("the charges are right"));
+        } else {
+            f.message.push_str(
+                "; the atoms could not be counted, so whether only a charge is wrong is unknown",
+            );
         }
     }
     out
+}
+
+/// Participants in more than one compartment.
+fn spans_compartments(model: &Model, reaction: usize) -> bool {
+    let st = &model.reactions[reaction].stoichiometry;
+    st.iter()
+        .any(|&(i, _)| model.metabolites[i].compartment != model.metabolites[st[0].0].compartment)
 }
 
 /// The imbalance of one reaction.
