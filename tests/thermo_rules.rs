@@ -386,3 +386,40 @@ reactions:
         f.message
     );
 }
+
+/// Ranges: extended Debye–Hückel to 0.35 M (Alberty 2003; limit from
+/// memory), ΔCp = 0 and RTα(T) over 273.15–313.15 K (Alberty 2003, Table 3.1
+/// and p. 268), library checked at pH 5–9 (Alberty 2003 pp. 79, 220, 290).
+/// One warning per compartment, naming every range it leaves.
+#[test]
+fn conditions_outside_the_valid_ranges_are_warned_once_per_compartment() {
+    let report = analyse(
+        "id: t
+compartments:
+  - {id: hot, ph: 9.5, ionic_strength: 0.5 M, temperature: 45 °C}
+  - {id: mild, ph: 9.5, ionic_strength: 0.35 M}
+metabolites:
+  - {id: glc_hot, compartment: hot, library: glucose}
+  - {id: x_mild, compartment: mild, formation_energy: {value: -10}}
+reactions: []
+",
+    );
+    let warnings: Vec<_> = report
+        .findings
+        .iter()
+        .filter(|f| f.kind == "condition-outside-range")
+        .collect();
+    assert_eq!(warnings.len(), 1, "{warnings:#?}");
+    let w = warnings[0];
+    assert_eq!(w.subjects, ["hot"]);
+    assert_eq!(w.severity, gibbsite::report::Severity::Warning);
+    for part in [
+        "0.5 M is above 0.35 M",
+        "318.15 K is outside 273.15–313.15 K",
+        "pH 9.5 is outside 5–9",
+        "glc_hot",
+    ] {
+        assert!(w.message.contains(part), "{part}: {}", w.message);
+    }
+    // `mild` sits on the I limit and uses no library data at pH 9.5.
+}

@@ -11,6 +11,7 @@ pub mod energy_cycles;
 pub mod internal_loops;
 pub mod missing_energy;
 pub mod scenario_directions;
+pub mod validity;
 
 /// A registered check.
 pub struct Check {
@@ -26,6 +27,7 @@ pub struct Check {
 /// Every check, in the order the overview lists them.
 pub const REGISTRY: &[Check] = &[
     balance::CHECK,
+    validity::CHECK,
     copied_energy::CHECK,
     bounds_audit::CHECK,
     scenario_directions::CHECK,
