@@ -103,10 +103,14 @@ reactions:
     assert!((sigma - 0.75f64.sqrt()).abs() < 1e-12, "{sigma}");
     assert!((sigma - 0.866).abs() < 0.001);
     assert!(l.inconsistent);
-    assert!(report
-        .findings
-        .iter()
-        .any(|f| f.kind == "inconsistent-cycle-energy"));
+    // The message compares the sum with the allowance and shows both:
+    // k·σ = 1.959964 × 0.866 = 1.70 kJ/mol.
+    let f = finding(&report, "inconsistent-cycle-energy", "loop-1");
+    assert!(
+        f.message.contains("−1.90 kJ/mol") && f.message.contains("allowance 1.70 kJ/mol"),
+        "{}",
+        f.message
+    );
     // Each step alone keeps its own σ: √0.5 for R1, R2; 0.5 for R3.
     assert!((reaction_sigma(&report, "R1") - 0.5f64.sqrt()).abs() < 1e-12);
     assert!((reaction_sigma(&report, "R3") - 0.5).abs() < 1e-12);
@@ -422,4 +426,50 @@ reactions: []
         assert!(w.message.contains(part), "{part}: {}", w.message);
     }
     // `mild` sits on the I limit and uses no library data at pH 9.5.
+}
+
+/// The demo loop (PYK + PEPS): PEPS's best ΔG' that way is 6.30 kJ/mol over
+/// the allowed concentrations (tests/demo.rs works it out), and the loop
+/// check compares 6.30 − 1.96 × 1.2247 = 3.90 kJ/mol; the message must say
+/// that the allowance (2.40 kJ/mol) was subtracted and show both numbers.
+#[test]
+fn loop_message_shows_the_allowance_it_subtracted() {
+    let report =
+        Project::load(&std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside"))
+            .unwrap()
+            .analyse();
+    let f = finding(&report, "internal-loop", "loop-1");
+    for part in [
+        "at least 6.30 kJ/mol",
+        "3.90 kJ/mol after subtracting the uncertainty allowance 2.40 kJ/mol",
+    ] {
+        assert!(f.message.contains(part), "{part}: {}", f.message);
+    }
+}
+
+/// A membrane step whose metabolites have ΔfG'° but no formula or charge:
+/// the reason is the missing formula, never an empty list of metabolites.
+#[test]
+fn no_energy_message_names_the_real_reason() {
+    let report = analyse(
+        "id: t
+compartments: [{id: c}, {id: e}]
+metabolites:
+  - {id: x_c, compartment: c, formation_energy: {value: -10}}
+  - {id: x_e, compartment: e, formation_energy: {value: -10}}
+reactions:
+  - {id: XT, equation: x_e -> x_c}
+",
+    );
+    let f = finding(&report, "no-energy-data", "XT");
+    assert!(
+        !f.message.contains("no formation energy for"),
+        "{}",
+        f.message
+    );
+    assert!(
+        f.message.contains("has no formula and charge"),
+        "{}",
+        f.message
+    );
 }

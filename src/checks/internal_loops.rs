@@ -97,12 +97,20 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
         );
         let mut ev = evidence(&[("members", cycle.members.len() as f64)]);
         if let Some(c) = energy.and_then(|e| e.constrain.as_ref()) {
+            // The ΔG'_min compared is net of the k·σ allowance: say so and
+            // give the number before and after.
+            let allowance = analysis.reaction_thermo[c.index]
+                .as_ref()
+                .map_or(0.0, |t| analysis.sigma_multiplier * t.sigma_kj);
             message.push_str(&format!(
-                "; least plausible step: {} {} (ΔG' at least {} that way)",
+                "; least plausible step: {} {} (ΔG' that way at least {} over the allowed concentrations; {} after subtracting the uncertainty allowance {})",
                 c.reaction,
                 c.forbid,
-                kj(c.dg_min_in_loop_direction_kj)
+                kj(c.dg_min_in_loop_direction_kj + allowance),
+                kj(c.dg_min_in_loop_direction_kj),
+                kj(allowance)
             ));
+            ev.insert("allowance_of_suggested".into(), allowance);
             match c.rechecked.as_ref().map(|r| r.breaks_loop) {
                 Some(true) => message.push_str(", and forbidding that direction breaks the loop"),
                 Some(false) => message
@@ -132,13 +140,19 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                 subjects,
                 scenario: None,
                 message: format!(
-                    "ΔrG'° around {} adds up to {} instead of 0 (σ {}, {:.1} σ off): the reaction energies of this cycle contradict each other",
+                    "ΔrG'° around {} adds up to {} instead of 0, more than the allowance {} ({:.2} × σ {}; {:.1} σ off): the reaction energies of this cycle contradict each other",
                     cycle.id,
                     kj(e.sum_kj),
+                    kj(analysis.sigma_multiplier * e.sigma_kj),
+                    analysis.sigma_multiplier,
                     kj(e.sigma_kj),
                     e.deviation_sigmas.unwrap_or(f64::INFINITY)
                 ),
-                evidence: evidence(&[("drg0_sum", e.sum_kj), ("sigma", e.sigma_kj)]),
+                evidence: evidence(&[
+                    ("drg0_sum", e.sum_kj),
+                    ("sigma", e.sigma_kj),
+                    ("allowance", analysis.sigma_multiplier * e.sigma_kj),
+                ]),
             });
         }
     }

@@ -77,15 +77,50 @@ fn per_reaction(analysis: &Analysis) -> Vec<Finding> {
             severity: Severity::Note,
             subjects,
             scenario: None,
-            message: format!(
-                "no ΔrG'°: no reaction energy given and no formation energy for {}",
-                ids.iter()
-                    .map(|s| format!("`{s}`"))
-                    .collect::<Vec<_>>()
-                    .join(", ")
-            ),
+            message: missing_message(&ids, &missing.reasons),
             evidence: super::evidence(&[("missing_metabolites", ids.len() as f64)]),
         });
     }
     out
+}
+
+/// Why there is no ΔrG'°: the metabolites without ΔfG'°, and/or the other
+/// reasons (e.g. a membrane step without formulas); never an empty list.
+fn missing_message(ids: &[String], reasons: &[String]) -> String {
+    let mut parts = Vec::new();
+    if !ids.is_empty() {
+        parts.push(format!(
+            "no formation energy for {}",
+            ids.iter()
+                .map(|s| format!("`{s}`"))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ));
+    }
+    parts.extend(reasons.iter().cloned());
+    if parts.is_empty() {
+        parts.push("its energy could not be computed".to_string());
+    }
+    format!(
+        "no ΔrG'°: no reaction energy given, and {}",
+        parts.join("; ")
+    )
+}
+
+#[cfg(test)]
+mod tests {
+    use super::missing_message;
+
+    #[test]
+    fn message_never_lists_nothing() {
+        let reason = "`x` crosses a membrane but has no formula and charge to count the H and charge it carries".to_string();
+        let m = missing_message(&[], std::slice::from_ref(&reason));
+        assert!(!m.contains("no formation energy for"), "{m}");
+        assert!(m.ends_with(&reason), "{m}");
+        let m = missing_message(&["a".into(), "b".into()], &[]);
+        assert_eq!(
+            m,
+            "no ΔrG'°: no reaction energy given, and no formation energy for `a`, `b`"
+        );
+    }
 }

@@ -723,6 +723,10 @@ fn reaction(
             arrow = eq.arrow;
             for term in &eq.terms {
                 match metabolite_ids.get(&term.id) {
+                    // A metabolite with its own errors (already reported): the
+                    // equation cannot be judged, and saying more would mislead
+                    // (two invalid ids would look like one that cancels).
+                    Some(&INVALID) => ok = false,
                     Some(&m) => match stoichiometry.iter_mut().find(|(i, _)| *i == m) {
                         Some(entry) => entry.1 += term.coefficient,
                         None => stoichiometry.push((m, term.coefficient)),
