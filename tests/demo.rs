@@ -91,20 +91,26 @@ fn demo_numbers_match_hand_calculation() {
     assert!((range.min - expected_min).abs() < 1e-9, "{}", range.min);
     assert!((range.min - 6.297).abs() < 0.001);
     assert_eq!(peps.forward_verdict, Some(Verdict::Contradiction));
-    // K' = exp(−31.40 / RT) at 303.15 K.
+    // K' = exp(−31.40 / RT) at 298.15 K (the demo's 25 °C).
     assert!((peps.k_prime.unwrap() - (-31.40 / rt).exp()).abs() < 1e-15);
     let stor = report.reactions.iter().find(|r| r.id == "STOR").unwrap();
     assert_eq!(stor.missing_data, vec!["stor_c".to_string()]);
     assert!(stor.drg_prime.is_none());
-    // GAPD at noon is feasible only near its bounds: best ΔG' −1.58 kJ/mol.
+    // GAPD at noon: best ΔG' −1.58 kJ/mol, within the allowance 1.96 × σ with
+    // σ = √(0.8² + 0.3² + 0.5² + 1.0² + 0.5²) = √2.23 = 1.493 (demo values,
+    // g3p, pi, nad, 13dpg, nadh; H+ has none), i.e. 2.93 kJ/mol: ΔG' = 0
+    // within the allowance, so "at equilibrium" (still a scenario-marginal
+    // warning), not consistent.
     let gapd = report.reactions.iter().find(|r| r.id == "GAPD").unwrap();
     let noon = gapd
         .scenario_verdicts
         .iter()
         .find(|v| v.scenario == "noon")
         .unwrap();
-    assert_eq!(noon.verdict, Verdict::Marginal);
+    assert_eq!(noon.verdict, Verdict::AtEquilibrium);
     assert!((gapd.dg_range.unwrap().min + 1.58).abs() < 0.01);
+    let sigma = gapd.drg_prime.as_ref().unwrap().sigma_kj;
+    assert!((sigma - 2.23f64.sqrt()).abs() < 1e-12, "{sigma}");
 }
 
 fn copy_dir(from: &Path, to: &Path) {

@@ -643,6 +643,7 @@ fn fixture() -> Report {
             active_reactions: 2,
             contradictions: 1,
             marginal: 0,
+            at_equilibrium: 0,
             consistent: 1,
             no_data: 0,
         }],

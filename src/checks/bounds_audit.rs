@@ -67,6 +67,19 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                     ),
                     evidence: range_evidence(analysis, j),
                 }),
+                Verdict::AtEquilibrium if !r.is_reversible() => out.push(Finding {
+                    kind: "marginal-direction".into(),
+                    severity: Severity::Warning,
+                    subjects: vec![r.id.clone()],
+                    scenario: None,
+                    message: format!(
+                        "the only allowed direction ({name}) is at equilibrium as far as the data tell: its best ΔG', {}, is 0 within the uncertainty allowance ({}){}",
+                        kj(best),
+                        kj(allowance),
+                        copy_caveat(analysis, j)
+                    ),
+                    evidence: range_evidence(analysis, j),
+                }),
                 _ => {}
             }
         }

@@ -59,6 +59,16 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
                         copy_caveat(analysis, j)
                     ),
                 ),
+                Verdict::AtEquilibrium => (
+                    "scenario-marginal",
+                    Severity::Warning,
+                    format!(
+                        "carries {name} flux {flux} but is at equilibrium as far as the data tell: its best ΔG' that way, {}, is 0 within the uncertainty allowance ({}), so no driving force can be shown{}",
+                        kj(best),
+                        kj(allowance),
+                        copy_caveat(analysis, j)
+                    ),
+                ),
                 _ => continue,
             };
             out.push(Finding {

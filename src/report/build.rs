@@ -572,6 +572,7 @@ fn scenario_views(model: &Model, analysis: &Analysis) -> Vec<ScenarioView> {
                 active_reactions: 0,
                 contradictions: 0,
                 marginal: 0,
+                at_equilibrium: 0,
                 consistent: 0,
                 no_data: 0,
             };
@@ -583,6 +584,7 @@ fn scenario_views(model: &Model, analysis: &Analysis) -> Vec<ScenarioView> {
                 match analysis.verdict(j, flux.signum()) {
                     Verdict::Contradiction => view.contradictions += 1,
                     Verdict::Marginal => view.marginal += 1,
+                    Verdict::AtEquilibrium => view.at_equilibrium += 1,
                     Verdict::Consistent => view.consistent += 1,
                     Verdict::NoData => view.no_data += 1,
                 }

@@ -56,6 +56,9 @@ pub enum Verdict {
     Contradiction,
     /// Possible only near the concentration bounds or within the uncertainty.
     Marginal,
+    /// The best achievable ΔG' in that direction is 0 within the allowance:
+    /// no driving force can be shown (its own verdict, never "consistent").
+    AtEquilibrium,
     Consistent,
     /// No ΔG'° available.
     NoData,
@@ -66,6 +69,7 @@ impl Verdict {
         match self {
             Verdict::Contradiction => "contradiction",
             Verdict::Marginal => "marginal",
+            Verdict::AtEquilibrium => "at-equilibrium",
             Verdict::Consistent => "consistent",
             Verdict::NoData => "no-data",
         }
@@ -432,6 +436,8 @@ pub struct ScenarioView {
     pub active_reactions: usize,
     pub contradictions: usize,
     pub marginal: usize,
+    #[serde(default)]
+    pub at_equilibrium: usize,
     pub consistent: usize,
     pub no_data: usize,
 }

@@ -70,9 +70,11 @@ pub fn dg_measured(drg0_kj: f64, temperature_k: f64, participants: &[Participant
 ///
 /// * contradiction: even the most favourable concentrations leave ΔG' above
 ///   zero by more than the uncertainty allowance (`allowance` = k·σ);
-/// * marginal: the best achievable driving force is within the allowance
-///   plus `min_driving_force`, i.e. the step works only near the bounds or
-///   only if the estimate is off;
+/// * at equilibrium: the best achievable ΔG' is 0 within the allowance
+///   (|ΔG'| ≤ k·σ): the data cannot show any driving force that way;
+/// * marginal: a driving force beyond the allowance exists but is smaller
+///   than the allowance plus `min_driving_force`, i.e. the step works only
+///   near the bounds or only if the estimate is off;
 /// * consistent otherwise.
 pub fn verdict(range: Range, direction: f64, allowance: f64, min_driving_force: f64) -> Verdict {
     let best = if direction >= 0.0 {
@@ -82,6 +84,8 @@ pub fn verdict(range: Range, direction: f64, allowance: f64, min_driving_force: 
     };
     if best > allowance {
         Verdict::Contradiction
+    } else if best >= -allowance {
+        Verdict::AtEquilibrium
     } else if -best < allowance + min_driving_force {
         Verdict::Marginal
     } else {
@@ -162,7 +166,15 @@ mod tests {
     fn verdicts() {
         let r = |min, max| Range { min, max };
         assert_eq!(verdict(r(5.0, 20.0), 1.0, 2.0, 1.0), Verdict::Contradiction);
-        assert_eq!(verdict(r(1.5, 20.0), 1.0, 2.0, 1.0), Verdict::Marginal);
+        // Best ΔG' within ±k·σ of 0: at equilibrium as far as the data tell.
+        assert_eq!(verdict(r(1.5, 20.0), 1.0, 2.0, 1.0), Verdict::AtEquilibrium);
+        assert_eq!(
+            verdict(r(-2.0, 20.0), 1.0, 2.0, 1.0),
+            Verdict::AtEquilibrium
+        );
+        // ΔG' exactly 0 with no uncertainty and no minimum driving force is
+        // at equilibrium too, never consistent.
+        assert_eq!(verdict(r(0.0, 0.0), 1.0, 0.0, 0.0), Verdict::AtEquilibrium);
         assert_eq!(verdict(r(-2.5, 20.0), 1.0, 2.0, 1.0), Verdict::Marginal);
         assert_eq!(verdict(r(-3.5, 20.0), 1.0, 2.0, 1.0), Verdict::Consistent);
         // Backward needs ΔG' > 0 somewhere: best case is −max.
