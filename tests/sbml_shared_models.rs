@@ -104,3 +104,18 @@ fn recon3d_imports() {
         1
     );
 }
+
+/// A missing model skips visibly outside CI and fails under CI=true (the
+/// rule for every test that needs ../shared/models).
+#[test]
+fn missing_models_skip_outside_ci_and_fail_in_ci() {
+    let absent = std::path::Path::new("/nonexistent/gibbsite/model.xml.gz");
+    assert_eq!(common::missing_model(absent, false), None);
+    let in_ci = std::panic::catch_unwind(|| common::missing_model(absent, true));
+    let message = in_ci.expect_err("CI must fail on a missing model");
+    let text = message
+        .downcast_ref::<String>()
+        .cloned()
+        .unwrap_or_default();
+    assert!(text.contains("CI=true"), "{text}");
+}

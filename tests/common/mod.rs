@@ -14,17 +14,35 @@ pub fn shared_models_dir() -> PathBuf {
 }
 
 /// Path of a shared model, or `None` after printing that the test skipped.
+/// Under `CI=true` a missing model is a failure, never a silent pass.
 pub fn shared_model_path(file: &str) -> Option<PathBuf> {
     let path = shared_models_dir().join(file);
     if path.is_file() {
         Some(path)
     } else {
-        visible(&format!(
-            "skipped: {} not found (set GIBBSITE_MODELS_DIR)",
-            path.display()
-        ));
-        None
+        missing_model(&path, in_ci())
     }
+}
+
+/// `CI=true` in the environment (as CI services set it).
+pub fn in_ci() -> bool {
+    std::env::var("CI").is_ok_and(|v| v.eq_ignore_ascii_case("true"))
+}
+
+/// What a test does when a shared model is absent: in CI it fails loudly;
+/// elsewhere it says "skipped" where `cargo test` shows it and passes.
+pub fn missing_model(path: &Path, ci: bool) -> Option<PathBuf> {
+    if ci {
+        panic!(
+            "{} not found, and CI=true: the shared models must be present in CI (set GIBBSITE_MODELS_DIR)",
+            path.display()
+        );
+    }
+    visible(&format!(
+        "skipped: {} not found (set GIBBSITE_MODELS_DIR)",
+        path.display()
+    ));
+    None
 }
 
 /// A shared model imported, or `None` (skipped, with a visible message).
