@@ -309,3 +309,52 @@ fn the_demo_loop_is_found_with_its_fix() {
     assert_eq!(pyk.loops, ["loop-1"]);
     assert_eq!(pyk.loop_capable.as_deref(), Some("forward"));
 }
+
+/// Numbers the demo notes quote about compartments must be the model's: for
+/// every "<compartment name> (pH x, ψ = y mV)" in a note, x and y equal that
+/// compartment's pH and potential, and every compartment is described so.
+#[test]
+fn notes_quote_the_models_compartments() {
+    let project = Project::load(&demo_dir()).unwrap();
+    let text: String = std::fs::read_dir(demo_dir().join("notes"))
+        .unwrap()
+        .map(|e| std::fs::read_to_string(e.unwrap().path()).unwrap())
+        .collect::<Vec<_>>()
+        .join("\n")
+        .split_whitespace()
+        .collect::<Vec<_>>()
+        .join(" ");
+    let number = |s: &str| -> f64 {
+        s.trim_matches(|c: char| !(c.is_ascii_digit() || c == '.' || c == '−' || c == '-'))
+            .replace('−', "-")
+            .parse()
+            .unwrap_or_else(|_| panic!("a number: {s:?}"))
+    };
+    for c in &project.model.compartments {
+        let key = format!("{} (pH ", c.name);
+        let at = text
+            .find(&key)
+            .unwrap_or_else(|| panic!("notes describe {} as `{key}…)`", c.name));
+        let rest = &text[at + key.len()..];
+        let inside = &rest[..rest.find(')').unwrap()];
+        let (ph, psi) = inside.split_once(", ψ = ").expect("pH and ψ");
+        assert_eq!(number(ph), c.ph, "pH of {} in the notes", c.name);
+        assert_eq!(
+            number(psi.trim_end_matches(" mV")),
+            c.potential_mv,
+            "ψ of {} in the notes",
+            c.name
+        );
+    }
+    // Every pH the notes mention is one of the model's.
+    for (i, _) in text.match_indices("pH ") {
+        let word = text[i + 3..].split([' ', ',', ')']).next().unwrap();
+        if word.starts_with(|c: char| c.is_ascii_digit()) {
+            let value = number(word);
+            assert!(
+                project.model.compartments.iter().any(|c| c.ph == value),
+                "pH {value} in the notes is no compartment's"
+            );
+        }
+    }
+}
