@@ -94,6 +94,9 @@ pub struct Analysis<'a> {
     pub errors: ErrorModel,
     /// k in the k·σ allowance, from the confidence level.
     pub sigma_multiplier: f64,
+    /// Every scenario judged jointly (the model's irreversible directions
+    /// first), see `scenarios`.
+    pub scenarios: Vec<crate::scenarios::ScenarioResult>,
 }
 
 /// What one independent error source belongs to.
@@ -123,11 +126,14 @@ impl<'a> Analysis<'a> {
             reaction_thermo: Vec::new(),
             errors: ErrorModel::default(),
             sigma_multiplier,
+            scenarios: Vec::new(),
         };
         analysis.reaction_thermo = (0..model.reactions.len())
             .map(|j| analysis.compute_reaction(j))
             .collect();
         analysis.errors = analysis.build_error_model();
+        analysis.scenarios =
+            crate::scenarios::analyse(&analysis, &crate::scenarios::ScenarioOptions::default());
         if settings.loops {
             analysis.loops = Some(analysis.run_loops());
         }
