@@ -4,7 +4,8 @@
 
 use gibbsite::analysis::Analysis;
 use gibbsite::scenarios::{
-    self, JointOutcome, JointProblem, JointVarKind, Repair, ScenarioOptions, ScenarioResult,
+    self, Binding, JointOutcome, JointProblem, JointVarKind, Repair, ScenarioOptions,
+    ScenarioResult,
 };
 use gibbsite::Project;
 
@@ -117,10 +118,13 @@ fn chain_feasible_step_by_step_is_jointly_infeasible() {
     let binding: Vec<(String, bool)> = set
         .binding
         .iter()
-        .map(|&(k, up)| match run.problem.vars[k].kind {
-            JointVarKind::LnConcentration { metabolite } => {
-                (project.model.metabolites[metabolite].id.clone(), up)
-            }
+        .map(|b| match *b {
+            Binding::Variable(k, up) => match run.problem.vars[k].kind {
+                JointVarKind::LnConcentration { metabolite } => {
+                    (project.model.metabolites[metabolite].id.clone(), up)
+                }
+                other => panic!("{other:?}"),
+            },
             other => panic!("{other:?}"),
         })
         .collect();

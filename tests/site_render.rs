@@ -372,6 +372,7 @@ fn fixture() -> Report {
             scenario: "growth".into(),
             flux: -2.5,
             verdict: Verdict::Contradiction,
+            alone_only: false,
         }],
         missing_data: vec![],
         missing_reasons: vec![],
@@ -645,6 +646,7 @@ fn fixture() -> Report {
             marginal: 0,
             consistent: 1,
             no_data: 0,
+            joint_verdict: None,
         }],
         notes: vec![NoteView {
             slug: "review".into(),
@@ -655,6 +657,7 @@ fn fixture() -> Report {
                 .into(),
         }],
         loops: Some(loops_view()),
+        joint_scenarios: Vec::new(),
     }
 }
 

@@ -10,6 +10,7 @@ pub mod energy_cycles;
 pub mod internal_loops;
 pub mod missing_energy;
 pub mod scenario_directions;
+pub mod scenario_joint;
 
 /// A registered check.
 pub struct Check {
@@ -27,6 +28,7 @@ pub const REGISTRY: &[Check] = &[
     balance::CHECK,
     bounds_audit::CHECK,
     scenario_directions::CHECK,
+    scenario_joint::CHECK,
     missing_energy::CHECK,
     internal_loops::CHECK,
     energy_cycles::CHECK,

@@ -8,7 +8,7 @@
 //! one member of every set found so far (the one with the largest certificate
 //! weight) is blocked and the whole scenario searched again.
 
-use super::feasibility::{DualPoint, JointProblem, JointVarKind, Undecided};
+use super::feasibility::{Binding, DualPoint, JointProblem, JointVarKind, Undecided};
 use super::tolerance::SUBSTITUTION_KJ;
 use crate::lp::{LinearProgram, Relation, Sense, Var};
 use std::collections::{BTreeMap, BTreeSet};
@@ -26,8 +26,8 @@ pub struct ConflictSet {
     pub overall_kj: f64,
     /// What the set would need: Σ wⱼ·ΔG'ⱼ ≤ −Σ wⱼ·min_driving_force.
     pub required_kj: f64,
-    /// Bounds that bind: (variable, at its upper bound).
-    pub binding: Vec<(usize, bool)>,
+    /// Bounds that limit the overall ΔG'.
+    pub binding: Vec<Binding>,
     pub repairs: Vec<Repair>,
 }
 
@@ -138,7 +138,7 @@ fn describe(problem: &JointProblem, members: &[usize]) -> Result<ConflictSet, Un
     let weight_of: BTreeMap<usize, f64> =
         dual.weights.iter().map(|&(s, y)| (s, y * scale)).collect();
     let weighted: Vec<(usize, f64)> = weight_of.iter().map(|(&s, &w)| (s, w)).collect();
-    let (overall_kj, binding) = problem.best_overall(&weighted);
+    let (overall_kj, binding) = problem.best_overall(&weighted)?;
     let total: f64 = weighted.iter().map(|(_, w)| w).sum();
     let steps = pathway_order(problem, members);
     let weights = steps
@@ -151,7 +151,7 @@ fn describe(problem: &JointProblem, members: &[usize]) -> Result<ConflictSet, Un
         weights,
         overall_kj,
         required_kj: -total * problem.min_driving_force_kj,
-        binding: binding.into_iter().map(|(k, up, _)| (k, up)).collect(),
+        binding,
         repairs,
     })
 }
@@ -286,6 +286,7 @@ fn repair_lp(
             step.rhs - problem.min_driving_force_kj,
         );
     }
+    problem.add_allowance_rows(&mut lp, members, &|k| var_of[&k]);
     RepairLp { lp, var_of }
 }
 

@@ -13,20 +13,25 @@
 //!
 //! Each active reaction `j` with flux direction `dⱼ` (±1) and a ΔrG'° gives
 //! one row `dⱼ·(ΔrG'°ⱼ + Σₛ cⱼₛεₛ + RTⱼ·Σᵢ νᵢⱼxᵢ) + B ≤ 0`, written
-//! `aⱼ·z + B ≤ bⱼ` with `bⱼ = −dⱼ·ΔrG'°ⱼ`. Maximising `B` gives the max-min
+//! `aⱼ·z + B ≤ bⱼ` with `bⱼ = −dⱼ·ΔrG'°ⱼ`, and, when its ΔrG'° has error
+//! sources, the allowance rows `|Σₛ cⱼₛεₛ| ≤ k·σⱼ`: the sources of one
+//! reaction together never move its ΔrG'° beyond the k·σ the per-step
+//! verdicts allow (a box of ±k·σₛ per source alone would allow
+//! k·Σ|cₛ|σₛ, more than k·√Σ(cₛσₛ)²). Maximising `B` gives the max-min
 //! driving force (Noor et al., PLoS Comput. Biol. 10 (2014) e1003483); the
 //! scenario is feasible exactly when that maximum reaches the project's
 //! `min_driving_force`. The dual of the same LP is solved as its own LP:
 //!
-//! minimise `Σⱼ yⱼbⱼ − Σₖ (lₖpₖ − uₖqₖ)` subject to `Σⱼ yⱼaⱼₖ = pₖ − qₖ`,
-//! `Σⱼ yⱼ = 1`, `y, p, q ≥ 0`;
+//! minimise `Σⱼ yⱼbⱼ + Σⱼ (μ⁺ⱼ + μ⁻ⱼ)·k·σⱼ − Σₖ (lₖpₖ − uₖqₖ)` subject to
+//! `Σⱼ yⱼaⱼₖ + Σⱼ (μ⁺ⱼ − μ⁻ⱼ)·eⱼₖ = pₖ − qₖ` (e: the allowance rows),
+//! `Σⱼ yⱼ = 1`, `y, μ, p, q ≥ 0`;
 //!
 //! its optimum equals the MDF (strong duality, checked), its `yⱼ` are the
 //! dual values of the rows (how much the MDF rises per kJ/mol of extra
 //! driving force of step `j`), and when the MDF falls short of the required
 //! force the same `y` is a Farkas certificate: `min over the box of
 //! yᵀ(A·z − b) + Σy·min_driving_force > 0`, which no concentration set can
-//! meet.
+//! meet (the allowance multipliers take part in the certificate).
 
 use super::tolerance::{DECIDE_KJ, DUALITY_GAP_KJ, SUBSTITUTION_KJ};
 use crate::lp::{LinearProgram, LpError, Relation, Sense, Var};
@@ -65,6 +70,9 @@ pub struct JointStep {
     /// (variable index, coefficient) over concentrations and deviations.
     pub terms: Vec<(usize, f64)>,
     pub rhs: f64,
+    /// k·σ of this ΔrG'°: `|Σ (deviation terms)| ≤ allowance`; `None`
+    /// when it has no error source.
+    pub allowance: Option<f64>,
 }
 
 /// The joint LP's data, independent of the solver.
@@ -92,6 +100,17 @@ pub struct DualPoint {
     pub value_kj: f64,
     /// (step index, yⱼ > 0), Σ yⱼ = 1.
     pub weights: Vec<(usize, f64)>,
+    /// (step index, μ⁺ⱼ − μ⁻ⱼ) of the allowance rows, non-zero only.
+    pub allowance_weights: Vec<(usize, f64)>,
+}
+
+/// A bound that limits the best overall ΔG' of a set of steps.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Binding {
+    /// A variable at its upper (true) or lower bound.
+    Variable(usize, bool),
+    /// A step's ΔrG'° at the end of its ±k·σ allowance (true: +k·σ).
+    Allowance(usize, bool),
 }
 
 /// The verdict on a set of steps, with the evidence of both LPs.
@@ -171,6 +190,7 @@ impl ProblemBuilder {
         rt_kj: f64,
         q_terms: &[(usize, f64)],
         error_terms: &[(usize, f64)],
+        allowance: Option<f64>,
     ) {
         let d = direction.signum();
         let mut terms: BTreeMap<usize, f64> = BTreeMap::new();
@@ -188,6 +208,7 @@ impl ProblemBuilder {
             rt_kj,
             terms: terms.into_iter().filter(|(_, a)| *a != 0.0).collect(),
             rhs: -d * drg0_kj,
+            allowance: allowance.filter(|_| !error_terms.is_empty()),
         });
     }
 
@@ -229,7 +250,34 @@ impl JointProblem {
             row.push((b, 1.0));
             lp.add_row(&row, Relation::LessOrEqual, step.rhs);
         }
+        self.add_allowance_rows(&mut lp, subset, &|k| vars[position[&k]]);
         (lp, used, b)
+    }
+
+    /// Deviation terms of step `s` (kJ/mol per unit of each ε).
+    pub fn deviation_terms(&self, s: usize) -> impl Iterator<Item = (usize, f64)> + '_ {
+        self.steps[s]
+            .terms
+            .iter()
+            .copied()
+            .filter(|&(k, _)| matches!(self.vars[k].kind, JointVarKind::Deviation { .. }))
+    }
+
+    /// `−k·σⱼ ≤ Σ (deviation terms of j) ≤ k·σⱼ` for the steps of `subset`.
+    pub(crate) fn add_allowance_rows(
+        &self,
+        lp: &mut LinearProgram,
+        subset: &[usize],
+        var: &dyn Fn(usize) -> Var,
+    ) {
+        for &s in subset {
+            let Some(limit) = self.steps[s].allowance else {
+                continue;
+            };
+            let row: Vec<(Var, f64)> = self.deviation_terms(s).map(|(k, a)| (var(k), a)).collect();
+            lp.add_row(&row, Relation::LessOrEqual, limit);
+            lp.add_row(&row, Relation::GreaterOrEqual, -limit);
+        }
     }
 
     /// Solves the MDF LP over `subset` and checks the answer by
@@ -261,7 +309,11 @@ impl JointProblem {
     }
 
     /// The dual LP over `subset` (see the module documentation).
-    pub fn dual_program(&self, subset: &[usize]) -> (LinearProgram, Vec<Var>) {
+    #[allow(clippy::type_complexity)]
+    pub fn dual_program(
+        &self,
+        subset: &[usize],
+    ) -> (LinearProgram, Vec<Var>, Vec<(usize, Var, Var)>) {
         let used = self.used_vars(subset);
         let position: BTreeMap<usize, usize> =
             used.iter().enumerate().map(|(p, &k)| (k, p)).collect();
@@ -276,6 +328,19 @@ impl JointProblem {
                 columns[position[&k]].push((yv, a));
             }
         }
+        let mut mu = Vec::new();
+        for &s in subset {
+            let Some(limit) = self.steps[s].allowance else {
+                continue;
+            };
+            let plus = lp.add_variable(limit, 0.0, f64::INFINITY);
+            let minus = lp.add_variable(limit, 0.0, f64::INFINITY);
+            for (k, a) in self.deviation_terms(s) {
+                columns[position[&k]].push((plus, a));
+                columns[position[&k]].push((minus, -a));
+            }
+            mu.push((s, plus, minus));
+        }
         for (p, &k) in used.iter().enumerate() {
             let var = &self.vars[k];
             let plus = lp.add_variable(-var.lower, 0.0, f64::INFINITY);
@@ -287,12 +352,12 @@ impl JointProblem {
         }
         let sum: Vec<(Var, f64)> = y.iter().map(|&v| (v, 1.0)).collect();
         lp.add_row(&sum, Relation::Equal, 1.0);
-        (lp, y)
+        (lp, y, mu)
     }
 
     /// Solves the dual LP over `subset`, checked by substitution.
     pub fn solve_dual(&self, subset: &[usize]) -> Result<DualPoint, Undecided> {
-        let (lp, y) = self.dual_program(subset);
+        let (lp, y, mu) = self.dual_program(subset);
         let solution = lp.solve()?;
         let violation = lp.max_violation(&solution.values);
         if violation > SUBSTITUTION_KJ {
@@ -306,9 +371,15 @@ impl JointProblem {
             .map(|(&s, &v)| (s, solution.value(v)))
             .filter(|&(_, w)| w > 1e-9)
             .collect();
+        let allowance_weights = mu
+            .iter()
+            .map(|&(s, plus, minus)| (s, solution.value(plus) - solution.value(minus)))
+            .filter(|&(_, m)| m.abs() > 1e-12)
+            .collect();
         Ok(DualPoint {
             value_kj: solution.objective,
             weights,
+            allowance_weights,
         })
     }
 
@@ -329,7 +400,7 @@ impl JointProblem {
         let feasible = primal.value_kj >= self.min_driving_force_kj - DECIDE_KJ;
         if !feasible {
             // The dual weights must prove it on their own.
-            let proof = self.certificate_margin(&dual.weights);
+            let proof = self.certificate_margin(&dual);
             if proof <= 0.0 {
                 return Err(Undecided(format!(
                     "the infeasibility certificate does not hold when evaluated ({proof:.2e})"
@@ -343,43 +414,95 @@ impl JointProblem {
         }))
     }
 
-    /// Smallest value over the variable box of `Σ wⱼ·dⱼ·ΔG'ⱼ` (the weighted
-    /// overall ΔG' in the flux directions), with the bound each variable sits
-    /// at: (variable, at_upper, net weight) for variables with a non-zero net
-    /// weight and a range of positive width.
-    pub fn best_overall(&self, weights: &[(usize, f64)]) -> (f64, Vec<(usize, bool, f64)>) {
+    /// Smallest `Σ wⱼ·dⱼ·ΔG'ⱼ` (the weighted overall ΔG' in the flux
+    /// directions) over the allowed concentrations and deviations (box and
+    /// allowance rows of these steps), solved as an LP and checked by
+    /// substitution, with the bounds that limit it.
+    pub fn best_overall(&self, weights: &[(usize, f64)]) -> Result<(f64, Vec<Binding>), Undecided> {
+        let subset: Vec<usize> = weights.iter().map(|&(s, _)| s).collect();
+        let used = self.used_vars(&subset);
+        let position: BTreeMap<usize, usize> =
+            used.iter().enumerate().map(|(p, &k)| (k, p)).collect();
         let mut net: BTreeMap<usize, f64> = BTreeMap::new();
         let mut constant = 0.0;
         for &(s, w) in weights {
-            let step = &self.steps[s];
-            constant -= w * step.rhs;
-            for &(k, a) in &step.terms {
+            constant -= w * self.steps[s].rhs;
+            for &(k, a) in &self.steps[s].terms {
                 *net.entry(k).or_default() += w * a;
             }
         }
+        let mut lp = LinearProgram::new(Sense::Minimise);
+        let vars: Vec<Var> = used
+            .iter()
+            .map(|&k| {
+                let v = &self.vars[k];
+                lp.add_variable(net.get(&k).copied().unwrap_or(0.0), v.lower, v.upper)
+            })
+            .collect();
+        self.add_allowance_rows(&mut lp, &subset, &|k| vars[position[&k]]);
+        let solution = lp.solve()?;
+        let violation = lp.max_violation(&solution.values);
+        if violation > SUBSTITUTION_KJ {
+            return Err(Undecided(format!(
+                "the overall-ΔG' LP answer violates its constraints by {violation:.2e}"
+            )));
+        }
         let mut binding = Vec::new();
-        let mut total = constant;
-        for (k, g) in net {
-            if g.abs() < 1e-12 {
+        for (p, &k) in used.iter().enumerate() {
+            let g = net.get(&k).copied().unwrap_or(0.0);
+            let v = &self.vars[k];
+            let x = solution.values[p];
+            // A fixed variable (σ = 0) has no bound to relax.
+            if g.abs() < 1e-12 || v.upper <= v.lower {
                 continue;
             }
-            let v = &self.vars[k];
-            let at_upper = g < 0.0;
-            total += g * if at_upper { v.upper } else { v.lower };
-            // A fixed variable (σ = 0) has no bound to relax.
-            if v.upper > v.lower {
-                binding.push((k, at_upper, g));
+            if (x - v.upper).abs() < 1e-9 {
+                binding.push(Binding::Variable(k, true));
+            } else if (x - v.lower).abs() < 1e-9 {
+                binding.push(Binding::Variable(k, false));
             }
         }
-        (total, binding)
+        for &s in &subset {
+            let Some(limit) = self.steps[s].allowance else {
+                continue;
+            };
+            let total: f64 = self
+                .deviation_terms(s)
+                .map(|(k, a)| a * solution.values[position[&k]])
+                .sum();
+            if limit > 0.0 && (total.abs() - limit).abs() < 1e-9 {
+                // In the flux direction: lower ΔG' means −k·σ along d.
+                binding.push(Binding::Allowance(s, total > 0.0));
+            }
+        }
+        Ok((constant + solution.objective, binding))
     }
 
-    /// `min over the box of yᵀ(A·z − b) + Σy·min_driving_force`: positive
-    /// means `weights` prove the steps cannot all run (Farkas' lemma).
-    pub fn certificate_margin(&self, weights: &[(usize, f64)]) -> f64 {
-        let (overall, _) = self.best_overall(weights);
-        let total: f64 = weights.iter().map(|(_, w)| w).sum();
-        overall + total * self.min_driving_force_kj
+    /// `min over the box of Σyⱼ(aⱼ·z − bⱼ) + Σμⱼ(eⱼ·z) − Σ|μⱼ|·k·σⱼ +
+    /// Σy·min_driving_force`: positive means the dual point proves the
+    /// steps cannot all run (Farkas' lemma), evaluated directly.
+    pub fn certificate_margin(&self, dual: &DualPoint) -> f64 {
+        let mut net: BTreeMap<usize, f64> = BTreeMap::new();
+        let mut constant = 0.0;
+        for &(s, y) in &dual.weights {
+            constant -= y * self.steps[s].rhs;
+            constant += y * self.min_driving_force_kj;
+            for &(k, a) in &self.steps[s].terms {
+                *net.entry(k).or_default() += y * a;
+            }
+        }
+        for &(s, m) in &dual.allowance_weights {
+            constant -= m.abs() * self.steps[s].allowance.unwrap_or(0.0);
+            for (k, a) in self.deviation_terms(s) {
+                *net.entry(k).or_default() += m * a;
+            }
+        }
+        let mut total = constant;
+        for (k, g) in net {
+            let v = &self.vars[k];
+            total += if g < 0.0 { g * v.upper } else { g * v.lower };
+        }
+        total
     }
 
     /// ΔG' of step `s` in its flux direction at `values` (deviations
@@ -410,8 +533,8 @@ mod tests {
             b.variable(JointVarKind::LnConcentration { metabolite: 1 }, range),
             b.variable(JointVarKind::LnConcentration { metabolite: 2 }, range),
         );
-        b.step(0, 1.0, -5.0, 0.0, rt, &[(a, -1.0), (bb, 1.0)], &[]);
-        b.step(1, 1.0, -1.0, 0.0, rt, &[(bb, -1.0), (c, 1.0)], &[]);
+        b.step(0, 1.0, -5.0, 0.0, rt, &[(a, -1.0), (bb, 1.0)], &[], None);
+        b.step(1, 1.0, -1.0, 0.0, rt, &[(bb, -1.0), (c, 1.0)], &[], None);
         let p = b.finish();
         let decision = p.decide(&[0, 1]).unwrap().unwrap();
         assert!(decision.is_feasible());

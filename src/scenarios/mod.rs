@@ -26,7 +26,7 @@ use crate::analysis::Analysis;
 use crate::model::Special;
 use crate::thermo::constants::rt;
 pub use conflicts::{ConflictSet, Repair};
-pub use feasibility::{Decision, JointProblem, JointVarKind, ProblemBuilder, Undecided};
+pub use feasibility::{Binding, Decision, JointProblem, JointVarKind, ProblemBuilder, Undecided};
 pub use loop_law::{FluxCycle, LoopLawResult};
 pub use mdf::MdfResult;
 
@@ -213,6 +213,7 @@ pub fn build_problem(analysis: &Analysis, active: &[(usize, f64)]) -> (JointProb
             rt(t.temperature_k),
             &q_terms,
             &error_terms,
+            Some(k * analysis.errors.reaction_sigma(j)),
         );
     }
     (builder.finish(), without_data)
