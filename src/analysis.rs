@@ -92,6 +92,9 @@ pub struct Analysis<'a> {
     /// Independent error sources behind every ΔrG'° (shared by verdicts,
     /// loop sums and the joint scenario LP).
     pub errors: ErrorModel,
+    /// Compound of each metabolite for error purposes: the index of the
+    /// first metabolite sharing its ΔfG'° error (`thermo::compounds`).
+    pub compound_of: Vec<usize>,
     /// k in the k·σ allowance, from the confidence level.
     pub sigma_multiplier: f64,
     /// Every scenario judged jointly (the model's irreversible directions
@@ -104,6 +107,9 @@ pub struct Analysis<'a> {
 pub enum ErrorKey {
     /// The ΔfG'° error of one metabolite.
     Metabolite(usize),
+    /// The ΔfG'° error shared by every metabolite of one compound (named by
+    /// its first metabolite; see `thermo::compounds`).
+    Compound(usize),
     /// A reaction's own `reaction_energy`.
     Reaction(usize),
 }
@@ -117,6 +123,7 @@ impl<'a> Analysis<'a> {
         // The loader accepts confidence in [0.5, 0.9999] only, so this cannot fail.
         let sigma_multiplier =
             crate::thermo::uncertainty::sigma_multiplier(settings.confidence).unwrap_or(1.96);
+        let compound_of = crate::thermo::compounds::group_compounds(model, &metabolites);
         let mut analysis = Analysis {
             model,
             settings,
@@ -125,6 +132,7 @@ impl<'a> Analysis<'a> {
             metabolites,
             reaction_thermo: Vec::new(),
             errors: ErrorModel::default(),
+            compound_of,
             sigma_multiplier,
             scenarios: Vec::new(),
         };
@@ -132,6 +140,12 @@ impl<'a> Analysis<'a> {
             .map(|j| analysis.compute_reaction(j))
             .collect();
         analysis.errors = analysis.build_error_model();
+        // Every σ(ΔrG'°) is that of its net error per compound.
+        for (j, t) in analysis.reaction_thermo.iter_mut().enumerate() {
+            if let Ok(t) = t {
+                t.sigma_kj = analysis.errors.reaction_sigma(j);
+            }
+        }
         analysis.scenarios =
             crate::scenarios::analyse(&analysis, &crate::scenarios::ScenarioOptions::default());
         if settings.loops {
@@ -170,7 +184,14 @@ impl<'a> Analysis<'a> {
                     confidence: self.sigma_multiplier,
                     ..LoopEnergyOptions::default()
                 };
-                loops::assess_loop_energies(self.model, found, &standard, &ranges, &options)
+                loops::assess_loop_energies_correlated(
+                    self.model,
+                    found,
+                    &standard,
+                    &ranges,
+                    &self.errors,
+                    &options,
+                )
             }
             Err(e) => Err(e.clone()),
         };
@@ -186,9 +207,22 @@ impl<'a> Analysis<'a> {
         }
     }
 
-    /// The independent error source behind metabolite `i`'s ΔfG'°.
+    /// The independent error source behind metabolite `i`'s ΔfG'°: its
+    /// compound's.
     pub fn metabolite_error_key(&self, i: usize) -> ErrorKey {
-        ErrorKey::Metabolite(i)
+        ErrorKey::Compound(self.compound_of[i])
+    }
+
+    /// "ΔfG'° of glucose (glc_c, glc_e)": label of a compound's error source.
+    fn compound_label(&self, i: usize) -> String {
+        let rep = self.compound_of[i];
+        let members: Vec<&str> = (0..self.model.metabolites.len())
+            .filter(|&k| self.compound_of[k] == rep)
+            .map(|k| self.model.metabolites[k].id.as_str())
+            .collect();
+        let m = &self.model.metabolites[rep];
+        let name = if m.name.is_empty() { &m.id } else { &m.name };
+        format!("ΔfG'° of {name} ({})", members.join(", "))
     }
 
     /// Error sources of every ΔrG'°: a reaction's own value is one source;
@@ -226,7 +260,7 @@ impl<'a> Analysis<'a> {
                         };
                         let s = source_of(
                             self.metabolite_error_key(i),
-                            &|| format!("ΔfG'° of {}", self.model.metabolites[i].id),
+                            &|| self.compound_label(i),
                             e.sigma_kj,
                         );
                         *net.entry(s).or_insert(0.0) += c;
@@ -310,10 +344,12 @@ impl<'a> Analysis<'a> {
                 None,
             ),
             None => {
-                let (value, sigma, transport) = self.formation_energy_sum(j)?;
+                let (value, transport) = self.formation_energy_sum(j)?;
                 (
                     value,
-                    sigma,
+                    // Filled in from the error model once every reaction is
+                    // known (errors are shared per compound, not per term).
+                    0.0,
                     EnergyOrigin::Formation,
                     "Σ ν·ΔfG'°".to_string(),
                     transport,
@@ -334,12 +370,13 @@ impl<'a> Analysis<'a> {
         })
     }
 
-    /// Σ ν·ΔfG'° with its σ; for a reaction spanning compartments, plus the
-    /// proton and electrical terms of moving H and charge across membranes.
+    /// Σ ν·ΔfG'°; for a reaction spanning compartments, plus the proton and
+    /// electrical terms of moving H and charge across membranes. (Its σ comes
+    /// from the error model.)
     fn formation_energy_sum(
         &self,
         j: usize,
-    ) -> Result<(f64, f64, Option<TransportTerms>), MissingEnergy> {
+    ) -> Result<(f64, Option<TransportTerms>), MissingEnergy> {
         let r = &self.model.reactions[j];
         let mut missing = MissingEnergy {
             metabolites: Vec::new(),
@@ -348,21 +385,21 @@ impl<'a> Analysis<'a> {
         let mut terms = Vec::new();
         for &(i, c) in &r.stoichiometry {
             match self.metabolite_energy(i) {
-                Some(e) => terms.push((c, e.value_kj, e.sigma_kj)),
+                Some(e) => terms.push(c * e.value_kj),
                 None => missing.metabolites.push(i),
             }
         }
         if !missing.metabolites.is_empty() {
             return Err(missing);
         }
-        let (value, sigma) = reaction::weighted_sum(&terms);
+        let value: f64 = terms.iter().sum();
         let compartment_of = |i: usize| self.model.metabolites[i].compartment;
         let first = r.stoichiometry.first().map(|&(i, _)| compartment_of(i));
         if r.stoichiometry
             .iter()
             .all(|&(i, _)| Some(compartment_of(i)) == first)
         {
-            return Ok((value, sigma, None));
+            return Ok((value, None));
         }
         let states: Vec<CompartmentState> = self
             .model
@@ -398,7 +435,6 @@ impl<'a> Analysis<'a> {
         match transport::standard_reaction_energy(&states, &parts, None) {
             Ok(b) => Ok((
                 b.total_kj,
-                sigma,
                 Some(TransportTerms {
                     formation_sum_kj: b.formation_sum_kj,
                     proton_term_kj: b.proton_term_kj,
@@ -479,28 +515,36 @@ fn carried_hydrogens_and_charge(
 mod tests {
     use super::*;
 
-    /// With one source per metabolite, the error model gives every reaction
-    /// the σ of the independent rule √Σ (νσ)² computed beside it.
+    /// The demo's compounds: what crosses the membrane is one compound on
+    /// both sides (same library entry or identical species data); the rest
+    /// are their own.
     #[test]
-    fn error_model_reproduces_each_reaction_sigma() {
+    fn demo_metabolites_group_into_compounds() {
         let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
         let project = Project::load(&dir).expect("demo loads");
         let analysis = Analysis::new(&project.model, &project.settings);
-        let mut judged = 0;
-        for (j, t) in analysis.reaction_thermo.iter().enumerate() {
-            match t {
-                Ok(t) => {
-                    judged += 1;
-                    let sigma = analysis.errors.reaction_sigma(j);
-                    assert!(
-                        (sigma - t.sigma_kj).abs() < 1e-9,
-                        "{j}: {sigma} vs {}",
-                        t.sigma_kj
-                    );
-                }
-                Err(_) => assert!(analysis.errors.reactions[j].is_empty()),
-            }
-        }
-        assert!(judged > 10, "{judged}");
+        let id = |k: usize| project.model.metabolites[k].id.as_str();
+        let mut shared: Vec<(&str, &str)> = (0..project.model.metabolites.len())
+            .filter(|&k| analysis.compound_of[k] != k)
+            .map(|k| (id(analysis.compound_of[k]), id(k)))
+            .collect();
+        shared.sort();
+        assert_eq!(
+            shared,
+            [
+                ("co2_e", "co2_c"),
+                ("etoh_e", "etoh_c"),
+                ("glc_e", "glc_c"),
+                ("lac_e", "lac_c"),
+            ]
+        );
+        // One source per compound, named with its members.
+        let glc = analysis.metabolite_error_key(project.model.metabolite_index("glc_c").unwrap());
+        assert_eq!(glc, ErrorKey::Compound(0));
+        assert!(analysis
+            .errors
+            .sources
+            .iter()
+            .any(|s| s.label == "ΔfG'° of D-glucose (glc_e, glc_c)"));
     }
 }

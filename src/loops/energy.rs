@@ -13,6 +13,7 @@ use super::recheck::{Forbid, Rechecker};
 use super::tolerance::ENERGY_SUM_ROUNDOFF;
 use super::{LoopAnalysis, LoopError};
 use crate::model::Model;
+use crate::thermo::errors::ErrorModel;
 use serde::Serialize;
 
 /// ΔrG'° of a reaction as written, with its standard uncertainty (kJ/mol).
@@ -87,7 +88,9 @@ pub struct LoopEnergy {
     pub loop_id: String,
     /// Σ coef·ΔrG'° over members with data (kJ/mol).
     pub sum_kj: f64,
-    /// √Σ (coef·σ)², members taken as independent (kJ/mol).
+    /// σ of the sum (kJ/mol): of its net error per independent source when
+    /// the caller gives an error model ([`assess_loop_energies_correlated`]),
+    /// else √Σ (coef·σ)² with members taken as independent.
     pub sigma_kj: f64,
     /// Members with no ΔrG'°; the sum is partial when nonempty.
     pub members_without_data: Vec<String>,
@@ -103,7 +106,8 @@ pub struct LoopEnergy {
 
 /// Confronts every loop of `analysis` with ΔrG'° (`standard`) and ΔG'
 /// ranges (`ranges`), both indexed like `model.reactions` (missing entries
-/// or a shorter slice mean no data).
+/// or a shorter slice mean no data). The members' errors are taken as
+/// independent; see [`assess_loop_energies_correlated`].
 pub fn assess_loop_energies(
     model: &Model,
     analysis: &LoopAnalysis,
@@ -111,23 +115,75 @@ pub fn assess_loop_energies(
     ranges: &[Option<DeltaGRange>],
     options: &LoopEnergyOptions,
 ) -> Result<Vec<LoopEnergy>, LoopError> {
+    let independent = |members: &[(usize, f64)]| {
+        members.iter().fold(0.0f64, |acc, &(j, c)| {
+            acc.hypot(
+                c * standard
+                    .get(j)
+                    .copied()
+                    .flatten()
+                    .map_or(0.0, |d| d.sigma_kj),
+            )
+        })
+    };
+    assess(model, analysis, standard, ranges, &independent, options)
+}
+
+/// As [`assess_loop_energies`], with the σ of each loop sum from the net
+/// coefficients of shared error sources (`errors`, indexed like
+/// `model.reactions`): a compound's error met twice around the loop cancels
+/// instead of being counted twice (JCGM 100:2008, §5.2).
+pub fn assess_loop_energies_correlated(
+    model: &Model,
+    analysis: &LoopAnalysis,
+    standard: &[Option<StandardDeltaG>],
+    ranges: &[Option<DeltaGRange>],
+    errors: &ErrorModel,
+    options: &LoopEnergyOptions,
+) -> Result<Vec<LoopEnergy>, LoopError> {
+    let correlated = |members: &[(usize, f64)]| {
+        errors.sigma(
+            &errors.combine(
+                members
+                    .iter()
+                    .copied()
+                    .filter(|&(j, _)| j < errors.reactions.len()),
+            ),
+        )
+    };
+    assess(model, analysis, standard, ranges, &correlated, options)
+}
+
+/// σ of Σ coef·ΔrG'° over (reaction index, coefficient) pairs.
+type SigmaOf<'a> = dyn Fn(&[(usize, f64)]) -> f64 + 'a;
+
+/// The work of both entry points; `sigma_of` gives the σ of Σ coef·ΔrG'°
+/// over (reaction index, coefficient) pairs that all have data.
+fn assess(
+    model: &Model,
+    analysis: &LoopAnalysis,
+    standard: &[Option<StandardDeltaG>],
+    ranges: &[Option<DeltaGRange>],
+    sigma_of: &SigmaOf,
+    options: &LoopEnergyOptions,
+) -> Result<Vec<LoopEnergy>, LoopError> {
     let k = options.confidence;
     let mut rechecks: Vec<PendingRecheck> = Vec::new();
     let mut out = Vec::with_capacity(analysis.loops.len());
     for (position, cycle) in analysis.loops.iter().enumerate() {
         let mut sum = 0.0;
-        let mut variance = 0.0;
+        let mut with_data = Vec::new();
         let mut without = Vec::new();
         for member in &cycle.members {
             match standard.get(member.index).copied().flatten() {
                 Some(d) => {
                     sum += member.coefficient * d.value_kj;
-                    variance += (member.coefficient * d.sigma_kj).powi(2);
+                    with_data.push((member.index, member.coefficient));
                 }
                 None => without.push(member.reaction.clone()),
             }
         }
-        let sigma = variance.sqrt();
+        let sigma = sigma_of(&with_data);
         let complete = without.is_empty();
         let inconsistent = complete && sum.abs() > k * sigma + ENERGY_SUM_ROUNDOFF;
         let deviation_sigmas = (complete && sigma > 0.0).then(|| sum.abs() / sigma);

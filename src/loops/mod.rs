@@ -24,8 +24,8 @@ pub use currency::{CurrencyOptions, DissipationTest};
 pub use egc::{energy_generating_cycles, EnergyCycleAnalysis, EnergyCycleResult};
 pub use elementary::{ElementaryLoop, LoopMember};
 pub use energy::{
-    assess_loop_energies, ConstraintSuggestion, DeltaGBasis, DeltaGRange, LoopEnergy,
-    LoopEnergyOptions, Recheck, StandardDeltaG,
+    assess_loop_energies, assess_loop_energies_correlated, ConstraintSuggestion, DeltaGBasis,
+    DeltaGRange, LoopEnergy, LoopEnergyOptions, Recheck, StandardDeltaG,
 };
 pub use network::{Closure, Directions, RelaxedBound};
 pub use prune::PruningSummary;

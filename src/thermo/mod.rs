@@ -2,6 +2,7 @@
 //! Alberty's Legendre transform of species data, membrane transport terms and
 //! the built-in library of sourced species data.
 
+pub mod compounds;
 pub mod constants;
 pub mod errors;
 pub mod reaction;

@@ -1,10 +1,11 @@
 //! Propagation of standard uncertainties and the confidence multiplier used
 //! by verdicts.
 //!
-//! Formation energies are treated as independent, so the standard
-//! uncertainty of a sum Σ νᵢ·xᵢ is √(Σ (νᵢ·σᵢ)²) (first-order propagation:
-//! JCGM 100:2008, the GUM, eq. 10 (equation number from memory), with zero
-//! correlations). A verdict "ΔG'° > 0
+//! For independent inputs the standard uncertainty of a sum Σ νᵢ·xᵢ is
+//! √(Σ (νᵢ·σᵢ)²) (first-order propagation: JCGM 100:2008, the GUM, eq. 10
+//! (equation number from memory), with zero correlations). Formation
+//! energies of one compound are not independent; `errors` and `compounds`
+//! sum their coefficients per compound first (GUM §5.2). A verdict "ΔG'° > 0
 //! at confidence p" compares ΔG'° against k·σ with k the two-sided normal
 //! quantile Φ⁻¹((1 + p)/2).
 
