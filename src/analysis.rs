@@ -100,6 +100,9 @@ pub struct Analysis<'a> {
     pub copied_energies: Vec<crate::thermo::copies::CopiedEnergy>,
     /// k in the k·σ allowance, from the confidence level.
     pub sigma_multiplier: f64,
+    /// Every scenario judged jointly (the model's irreversible directions
+    /// first), see `scenarios`.
+    pub scenarios: Vec<crate::scenarios::ScenarioResult>,
 }
 
 /// What one independent error source belongs to.
@@ -136,6 +139,7 @@ impl<'a> Analysis<'a> {
             compound_of,
             copied_energies,
             sigma_multiplier,
+            scenarios: Vec::new(),
         };
         analysis.reaction_thermo = (0..model.reactions.len())
             .map(|j| analysis.compute_reaction(j))
@@ -147,6 +151,8 @@ impl<'a> Analysis<'a> {
                 t.sigma_kj = analysis.errors.reaction_sigma(j);
             }
         }
+        analysis.scenarios =
+            crate::scenarios::analyse(&analysis, &crate::scenarios::ScenarioOptions::default());
         if settings.loops {
             analysis.loops = Some(analysis.run_loops());
         }

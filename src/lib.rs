@@ -15,6 +15,7 @@ pub mod model;
 pub mod network;
 pub mod project;
 pub mod report;
+pub mod scenarios;
 pub mod site;
 pub mod slug;
 pub mod thermo;

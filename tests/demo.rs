@@ -46,12 +46,42 @@ fn demo_report_lists_the_deliberate_problems() {
                 s("PEPS"),
                 Some(s("dusk"))
             ),
+            (
+                Severity::Error,
+                s("scenario-contradiction"),
+                s("PEPS"),
+                Some(s("refit"))
+            ),
+            (
+                Severity::Error,
+                s("scenario-infeasible"),
+                s("PLC1"),
+                Some(s("bloom"))
+            ),
             (Severity::Warning, s("internal-loop"), s("loop-1"), None),
+            (
+                Severity::Warning,
+                s("scenario-internal-cycle"),
+                s("PYK"),
+                Some(s("refit"))
+            ),
+            (
+                Severity::Warning,
+                s("scenario-marginal"),
+                s("GAPD"),
+                Some(s("bloom"))
+            ),
             (
                 Severity::Warning,
                 s("scenario-marginal"),
                 s("GAPD"),
                 Some(s("noon"))
+            ),
+            (
+                Severity::Warning,
+                s("scenario-marginal"),
+                s("GAPD"),
+                Some(s("refit"))
             ),
             (Severity::Note, s("forced-flux"), s("ATPM"), None),
             (Severity::Note, s("no-energy-data"), s("STOR"), None),
@@ -65,11 +95,109 @@ fn demo_report_lists_the_deliberate_problems() {
             report.summary.warnings,
             report.summary.notes
         ),
-        (3, 2, 4)
+        (5, 5, 4)
     );
-    assert_eq!(report.summary.reactions, 28);
-    assert_eq!(report.summary.scenarios, 2);
+    assert_eq!(report.summary.reactions, 32);
+    assert_eq!(report.summary.scenarios, 4);
     assert_eq!(report.compartments.len(), 2);
+}
+
+/// The pigment pathway pyr → placidate → placidol → placidene, each step
+/// ΔrG'° = +9 kJ/mol (σ 0.8, demo values). Alone, PLC1's best ΔG' is
+/// 9 + RT ln(1 µM / 5 mM) = 9 − 21.11 = −12.11 kJ/mol (pyruvate at most 5 mM;
+/// RT = 2.478957 kJ/mol at 298.15 K), beyond the allowance 1.96 × 0.8 = 1.57
+/// plus the 1 kJ/mol minimum: consistent alone. Together:
+/// Σ ΔG' = 27 + RT ln([placidene]/[pyr]) ≥ 27 − 21.11 − 3 × 1.568 = +1.18 kJ/mol,
+/// and three steps need at most −3 × 1 kJ/mol: infeasible.
+#[test]
+fn demo_scenarios_judged_as_a_whole() {
+    let report = Project::load(&demo_dir()).unwrap().analyse();
+    let joint = |id: &str| {
+        report
+            .joint_scenarios
+            .iter()
+            .find(|s| s.id == id)
+            .unwrap_or_else(|| panic!("{id}"))
+    };
+    let bloom = joint("bloom");
+    assert_eq!(bloom.verdict, "infeasible");
+    assert_eq!(bloom.conflicts.len(), 1);
+    let set = &bloom.conflicts[0];
+    let ids: Vec<&str> = set.members.iter().map(|m| m.reaction.as_str()).collect();
+    assert_eq!(ids, ["PLC1", "PLC2", "PLC3"]);
+    let rt = 8.314_462_618e-3 * 298.15;
+    let expected = 27.0 + rt * (1e-6f64 / 5e-3).ln() - 3.0 * 1.959964 * 0.8;
+    assert!((expected - 1.18).abs() < 0.005, "{expected}");
+    assert!(
+        (set.overall_kj - expected).abs() < 1e-3,
+        "{}",
+        set.overall_kj
+    );
+    assert!((set.required_kj + 3.0).abs() < 1e-9);
+    // Each step is consistent alone, and says so only for itself.
+    for id in ids {
+        let r = report.reactions.iter().find(|r| r.id == id).unwrap();
+        let v = r
+            .scenario_verdicts
+            .iter()
+            .find(|v| v.scenario == "bloom")
+            .unwrap();
+        assert_eq!(v.verdict, Verdict::Consistent, "{id}");
+        assert!(v.alone_only, "{id}");
+    }
+    // The smallest widening: the set needs Σ ΔG' ≤ −3, so pyruvate's upper
+    // bound must rise by (1.18 + 3)/(RT ln 10 = 5.708) = 0.733 decades.
+    let widen = set
+        .repairs
+        .iter()
+        .find(|r| r.kind == "widen-range" && r.subject == "pyr_c")
+        .unwrap();
+    assert!(
+        (widen.amount - (expected + 3.0) / (rt * std::f64::consts::LN_10)).abs() < 1e-6,
+        "{}",
+        widen.amount
+    );
+
+    // Noon runs as a whole; its weakest steps share what driving force there is.
+    let noon = joint("noon");
+    assert_eq!(noon.verdict, "feasible");
+    let mdf = noon.mdf.as_ref().unwrap();
+    assert!(
+        mdf.value_kj >= 1.0 && mdf.value_kj < 3.0,
+        "{}",
+        mdf.value_kj
+    );
+    assert!(mdf.bottlenecks.iter().any(|b| b.reaction == "GAPD"));
+    let duals: f64 = mdf.bottlenecks.iter().map(|b| b.dual).sum();
+    assert!((duals - 1.0).abs() < 1e-6, "{duals}");
+    assert!(noon.loop_law.as_ref().unwrap().loop_free);
+
+    // The refit turns PYK and PEPS against each other: a cycle carrying
+    // 2 (PYK 12 = 10 down glycolysis + 2 around the cycle); the loop-free
+    // flux has PYK 10, PEPS 0 and every exchange unchanged.
+    let refit = joint("refit");
+    let law = refit.loop_law.as_ref().unwrap();
+    assert!(!law.loop_free);
+    assert_eq!(law.cycles.len(), 1);
+    let members: Vec<&str> = law.cycles[0]
+        .members
+        .iter()
+        .map(|m| m.reaction.as_str())
+        .collect();
+    assert_eq!(members, ["PYK", "PEPS"]);
+    assert!((law.cycles[0].flux - 2.0).abs() < 1e-9);
+    let flux = |id: &str| law.fluxes.iter().find(|f| f.reaction == id).unwrap();
+    assert!((flux("PYK").loop_free - 10.0).abs() < 1e-9);
+    assert!(flux("PEPS").loop_free.abs() < 1e-9);
+    for f in &law.fluxes {
+        if f.reaction.starts_with("EX_") {
+            assert_eq!(f.given, f.loop_free, "{}", f.reaction);
+        }
+    }
+    // The model's irreversible directions fail on PEPS alone.
+    let default = joint("irreversible-directions");
+    assert_eq!(default.verdict, "infeasible");
+    assert_eq!(default.conflicts[0].members[0].reaction, "PEPS");
 }
 
 /// PEPS as annotated: pyr + ATP → PEP + ADP (+ H+, fixed by pH).
@@ -141,7 +269,7 @@ fn run_check(dir: &Path) -> i32 {
 
 /// Copy the demo and repair its deliberate errors: PEPS written the right way
 /// round is no longer uphill, and the dusk scenario (lactate oxidation against
-/// the NAD ratio) is dropped.
+/// the NAD ratio), the pigment bloom and the refit flux are dropped.
 fn consistent_copy(into: &Path) {
     copy_dir(&demo_dir(), into);
     let model = std::fs::read_to_string(into.join("model.yaml")).unwrap();
@@ -150,7 +278,9 @@ fn consistent_copy(into: &Path) {
         "equation: pep_c + adp_c + h_c -> pyr_c + atp_c",
     );
     assert_ne!(model, fixed);
-    std::fs::write(into.join("model.yaml"), fixed).unwrap();
+    // The pigment bloom and the refit flux are deliberate problems too.
+    let cut = fixed.find("  # Each pigment step alone").unwrap();
+    std::fs::write(into.join("model.yaml"), &fixed[..cut]).unwrap();
     let settings = std::fs::read_to_string(into.join("gibbsite.yaml")).unwrap();
     let cut = settings.find("scenarios:").unwrap();
     std::fs::write(into.join("gibbsite.yaml"), &settings[..cut]).unwrap();
@@ -195,7 +325,22 @@ fn build_writes_a_site_with_report_json() {
     let json: serde_json::Value =
         serde_json::from_str(&std::fs::read_to_string(out.join("report.json")).unwrap()).unwrap();
     assert_eq!(json["tool"]["generated"], "2023-11-14T22:13:20Z");
-    assert_eq!(json["summary"]["errors"], 3);
+    assert_eq!(json["summary"]["errors"], 5);
+    // One page per scenario judged as a whole, with its drawings.
+    let bloom = std::fs::read_to_string(out.join("scenarios/bloom.html")).unwrap();
+    assert!(bloom.contains("Infeasible as a whole"));
+    assert!(bloom.contains("class=\"conflict-map\""));
+    assert!(
+        bloom.contains("pyr_c ≤ 5 mM"),
+        "binding bound on the drawing"
+    );
+    let noon = std::fs::read_to_string(out.join("scenarios/noon.html")).unwrap();
+    assert!(noon.contains("Max-min driving force"));
+    assert!(noon.contains("class=\"energy-profile\""));
+    let refit = std::fs::read_to_string(out.join("scenarios/refit.html")).unwrap();
+    assert!(refit.contains("Loop-free flux beside the given one"));
+    let plc1 = std::fs::read_to_string(out.join("reactions/PLC1.html")).unwrap();
+    assert!(plc1.contains("alone only"));
     assert!(json["project"]["caution"]
         .as_str()
         .unwrap()

@@ -372,6 +372,7 @@ fn fixture() -> Report {
             scenario: "growth".into(),
             flux: -2.5,
             verdict: Verdict::Contradiction,
+            alone_only: false,
         }],
         missing_data: vec![],
         missing_reasons: vec![],
@@ -646,6 +647,7 @@ fn fixture() -> Report {
             at_equilibrium: 0,
             consistent: 1,
             no_data: 0,
+            joint_verdict: None,
         }],
         notes: vec![NoteView {
             slug: "review".into(),
@@ -656,6 +658,7 @@ fn fixture() -> Report {
                 .into(),
         }],
         loops: Some(loops_view()),
+        joint_scenarios: Vec::new(),
     }
 }
 

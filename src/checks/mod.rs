@@ -11,6 +11,7 @@ pub mod energy_cycles;
 pub mod internal_loops;
 pub mod missing_energy;
 pub mod scenario_directions;
+pub mod scenario_joint;
 pub mod validity;
 
 /// A registered check.
@@ -31,6 +32,7 @@ pub const REGISTRY: &[Check] = &[
     copied_energy::CHECK,
     bounds_audit::CHECK,
     scenario_directions::CHECK,
+    scenario_joint::CHECK,
     missing_energy::CHECK,
     internal_loops::CHECK,
     energy_cycles::CHECK,

@@ -122,6 +122,41 @@ impl LinearProgram {
         self.rows.len()
     }
 
+    /// Largest violation of any bound or row by `values` (0 when every
+    /// constraint holds exactly). Every analysis that trusts an LP answer
+    /// checks it this way: the answer substituted back into the problem.
+    pub fn max_violation(&self, values: &[f64]) -> f64 {
+        if values.len() != self.columns.len() {
+            return f64::INFINITY;
+        }
+        let mut worst = 0.0f64;
+        for (c, &x) in self.columns.iter().zip(values) {
+            if !x.is_finite() {
+                return f64::INFINITY;
+            }
+            worst = worst.max(c.lower - x).max(x - c.upper);
+        }
+        for row in &self.rows {
+            let lhs: f64 = row.terms.iter().map(|(v, c)| c * values[v.0]).sum();
+            let gap = match row.relation {
+                Relation::LessOrEqual => lhs - row.rhs,
+                Relation::GreaterOrEqual => row.rhs - lhs,
+                Relation::Equal => (lhs - row.rhs).abs(),
+            };
+            worst = worst.max(gap);
+        }
+        worst
+    }
+
+    /// Objective value of `values` (to check a reported optimum).
+    pub fn objective_of(&self, values: &[f64]) -> f64 {
+        self.columns
+            .iter()
+            .zip(values)
+            .map(|(c, x)| c.cost * x)
+            .sum()
+    }
+
     /// Solves from scratch.
     pub fn solve(&self) -> Result<LpSolution, LpError> {
         LpSession::start(self).map(|session| session.solution().clone())
@@ -143,6 +178,10 @@ mod tests {
         lp.add_row(&[(x, 1.0), (y, 3.0)], Relation::LessOrEqual, 6.0);
         let s = lp.solve().unwrap();
         assert!((s.objective - 11.0).abs() < 1e-9);
+        assert!(lp.max_violation(&s.values) < 1e-9);
+        assert!((lp.objective_of(&s.values) - 11.0).abs() < 1e-9);
+        // A point outside: x = 4 breaks its bound by 1 and x + y ≤ 4 by 1.
+        assert!((lp.max_violation(&[4.0, 1.0]) - 1.0).abs() < 1e-12);
         assert!((s.value(x) - 3.0).abs() < 1e-9);
         assert!((s.value(y) - 1.0).abs() < 1e-9);
     }

@@ -119,6 +119,14 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
             })
             .collect(),
         loops: loops_view(model, analysis),
+        joint_scenarios: super::scenario_build::joint_views(
+            model,
+            analysis,
+            &super::scenario_build::Slugs {
+                reactions: &unique_slugs(model.reactions.iter().map(|r| r.id.as_str())),
+                metabolites: &metabolite_slugs(model),
+            },
+        ),
     }
 }
 
@@ -268,14 +276,18 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                     .iter()
                     .filter_map(|s| {
                         let flux = s.fluxes.iter().find(|(k, _)| *k == j)?.1;
+                        let verdict = if judged {
+                            analysis.verdict(j, flux.signum())
+                        } else {
+                            Verdict::NoData
+                        };
                         Some(ScenarioVerdictView {
                             scenario: s.id.clone(),
                             flux,
-                            verdict: if judged {
-                                analysis.verdict(j, flux.signum())
-                            } else {
-                                Verdict::NoData
-                            },
+                            verdict,
+                            alone_only: matches!(verdict, Verdict::Consistent | Verdict::Marginal)
+                                && joint_verdict(analysis, &s.id)
+                                    == Some(crate::scenarios::JointVerdict::Infeasible),
                         })
                     })
                     .collect(),
@@ -575,6 +587,7 @@ fn scenario_views(model: &Model, analysis: &Analysis) -> Vec<ScenarioView> {
                 at_equilibrium: 0,
                 consistent: 0,
                 no_data: 0,
+                joint_verdict: joint_verdict(analysis, &s.id).map(|v| v.slug().to_string()),
             };
             for &(j, flux) in &s.fluxes {
                 if !analysis.is_thermodynamic(j) {
@@ -592,6 +605,15 @@ fn scenario_views(model: &Model, analysis: &Analysis) -> Vec<ScenarioView> {
             view
         })
         .collect()
+}
+
+/// The joint verdict on the given scenario `id`.
+fn joint_verdict(analysis: &Analysis, id: &str) -> Option<crate::scenarios::JointVerdict> {
+    analysis
+        .scenarios
+        .iter()
+        .find(|s| !s.is_default && s.id == id)
+        .map(|s| s.verdict())
 }
 
 /// Species chart range: pH 4–10 in steps of 0.1 (where enzymes work).

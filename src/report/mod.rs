@@ -9,8 +9,12 @@ pub mod baseline;
 pub mod build;
 pub mod json;
 pub mod sarif;
+pub mod scenario_build;
+pub mod scenario_view;
 pub mod summary;
 pub mod text;
+
+pub use scenario_view::*;
 
 /// Version of the `report.json` shape; bump on breaking changes.
 pub const REPORT_SCHEMA_VERSION: u32 = 1;
@@ -91,6 +95,10 @@ pub struct Report {
     pub notes: Vec<NoteView>,
     /// Internal loops and energy-generating cycles; `None` when switched off.
     pub loops: Option<LoopsView>,
+    /// Every scenario judged as a whole, the model's irreversible
+    /// directions first.
+    #[serde(default)]
+    pub joint_scenarios: Vec<JointScenarioView>,
 }
 
 /// What the loop analysis found in the closed network.
@@ -385,6 +393,10 @@ pub struct ScenarioVerdictView {
     pub scenario: String,
     pub flux: f64,
     pub verdict: Verdict,
+    /// The step is possible alone, but the scenario as a whole is not: its
+    /// "consistent" or "marginal" holds only for the step alone.
+    #[serde(default)]
+    pub alone_only: bool,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -440,6 +452,9 @@ pub struct ScenarioView {
     pub at_equilibrium: usize,
     pub consistent: usize,
     pub no_data: usize,
+    /// Joint verdict: "feasible", "infeasible" or "not-decided".
+    #[serde(default)]
+    pub joint_verdict: Option<String>,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]

@@ -17,12 +17,14 @@
 //! metabolites/index.html  metabolites/<slug>.html
 //! notes/index.html  notes/<slug>.html      (when the project has notes)
 //! loops/index.html  loops/<slug>.html      (the loop pages: one per loop)
+//! scenarios/<slug>.html                    (one per scenario judged as a whole)
 //! ```
 
 pub mod derived;
 pub mod format;
 pub mod loop_map;
 pub mod markdown;
+pub mod scenario_svg;
 pub mod species_chart;
 pub mod svg;
 pub mod theme;
@@ -204,7 +206,15 @@ fn check_slugs(report: &Report) -> Result<(), Error> {
         .flat_map(|l| &l.loops)
         .map(|l| (l.id.as_str(), crate::slug::slug(&l.id)))
         .collect();
-    let groups: [(&str, Vec<(&str, &str)>); 4] = [
+    let groups: [(&str, Vec<(&str, &str)>); 5] = [
+        (
+            "scenario",
+            report
+                .joint_scenarios
+                .iter()
+                .map(|s| (s.id.as_str(), s.slug.as_str()))
+                .collect(),
+        ),
         (
             "reaction",
             report
@@ -610,5 +620,35 @@ fn pages(report: &Report) -> Vec<Page> {
             },
         ));
     }
+    for s in &report.joint_scenarios {
+        out.push(scenario_page(&page, s));
+    }
     out
+}
+
+/// The page of one scenario judged as a whole, with its drawings.
+fn scenario_page(
+    page: &dyn Fn(&'static str, String, &str, &str, Value) -> Page,
+    s: &crate::report::JointScenarioView,
+) -> Page {
+    let conflict_maps: Vec<Value> = s
+        .conflicts
+        .iter()
+        .enumerate()
+        .map(|(k, c)| {
+            Value::from_safe_string(scenario_svg::conflict_drawing(k, c).unwrap_or_default())
+        })
+        .collect();
+    let profile = scenario_svg::energy_profile(&s.id, &s.profile);
+    page(
+        "scenario.html",
+        format!("scenarios/{}.html", s.slug),
+        "overview",
+        &s.id,
+        context! {
+            item => Value::from_serialize(s),
+            conflict_maps => conflict_maps,
+            profile_svg => profile.map(Value::from_safe_string),
+        },
+    )
 }
