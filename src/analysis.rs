@@ -460,6 +460,7 @@ impl<'a> Analysis<'a> {
             .iter()
             .flat_map(|check| (check.run)(self))
             .collect();
+        checks::compartment_conditions::soften(self, &mut findings);
         crate::report::build::sort_findings(&mut findings);
         findings
     }

@@ -44,6 +44,10 @@ enum Command {
         /// Project folder to write (model.yaml and gibbsite.yaml).
         #[arg(short, long)]
         output: PathBuf,
+        /// YAML file of compartment conditions (`compartments: {m: {ph: 7.8,
+        /// potential: -155 mV}}`), written into gibbsite.yaml.
+        #[arg(long)]
+        conditions: Option<PathBuf>,
     },
     /// Analyse a project and print the findings; writes nothing.
     Check {
@@ -119,9 +123,18 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             eprintln!("site written to {}", out.display());
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
-        Command::Import { model, output } => {
+        Command::Import {
+            model,
+            output,
+            conditions,
+        } => {
             let model = gibbsite::project::sbml::read_sbml(&model)?;
-            gibbsite::project::write::write_project(&model, &output)?;
+            let conditions = conditions
+                .as_deref()
+                .map(|p| gibbsite::project::conditions::read_file(p, &model))
+                .transpose()?
+                .unwrap_or_default();
+            gibbsite::project::write::write_project_with_conditions(&model, &output, &conditions)?;
             eprintln!(
                 "{} reactions, {} metabolites, {} compartments written to {}",
                 model.reactions.len(),

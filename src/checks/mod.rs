@@ -6,6 +6,7 @@ use crate::report::Finding;
 
 pub mod balance;
 pub mod bounds_audit;
+pub mod compartment_conditions;
 pub mod energy_cycles;
 pub mod internal_loops;
 pub mod missing_energy;
@@ -28,6 +29,7 @@ pub const REGISTRY: &[Check] = &[
     bounds_audit::CHECK,
     scenario_directions::CHECK,
     missing_energy::CHECK,
+    compartment_conditions::CHECK,
     internal_loops::CHECK,
     energy_cycles::CHECK,
 ];

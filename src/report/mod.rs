@@ -267,6 +267,16 @@ pub struct CompartmentView {
     pub potential_mv: f64,
     pub temperature_k: f64,
     pub pmg: Option<f64>,
+    /// False when nobody stated its pH or potential (defaults in use).
+    #[serde(default = "stated_by_default")]
+    pub conditions_stated: bool,
+    /// Where its conditions come from, when the settings say.
+    #[serde(default)]
+    pub conditions_source: Option<String>,
+}
+
+fn stated_by_default() -> bool {
+    true
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
