@@ -36,6 +36,10 @@ enum Command {
         /// Earlier report.json: only findings not in it decide the exit code.
         #[arg(long)]
         baseline: Option<PathBuf>,
+        /// Side table of ΔG data or concentrations (CSV/TSV), keyed by model
+        /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
+        #[arg(long = "data", value_name = "TABLE")]
+        data: Vec<PathBuf>,
     },
     /// Convert an SBML model (.xml or .xml.gz) into a gibbsite project folder.
     Import {
@@ -58,6 +62,10 @@ enum Command {
         /// Earlier report.json: only findings not in it decide the exit code.
         #[arg(long)]
         baseline: Option<PathBuf>,
+        /// Side table of ΔG data or concentrations (CSV/TSV), keyed by model
+        /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
+        #[arg(long = "data", value_name = "TABLE")]
+        data: Vec<PathBuf>,
         /// What to print on standard output.
         #[arg(long, value_enum, default_value_t = Format::Text)]
         format: Format,
@@ -113,9 +121,10 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             output,
             fail_on,
             baseline,
+            data,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = Project::load(&project)?;
+            let loaded = load(&project, &data)?;
             let report = loaded.analyse();
             let out = output.unwrap_or_else(|| default_output(&project));
             gibbsite::site::render(&report, loaded.settings.theme_dir.as_deref(), &out)?;
@@ -149,9 +158,10 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             fail_on,
             baseline,
             format,
+            data,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = Project::load(&project)?;
+            let loaded = load(&project, &data)?;
             let report = loaded.analyse();
             let model_file = loaded
                 .settings
@@ -173,6 +183,16 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
     }
+}
+
+/// Load a project, apply `--data` tables and print load warnings.
+fn load(project: &Path, data: &[PathBuf]) -> Result<Project, Error> {
+    let mut loaded = Project::load(project)?;
+    loaded.add_tables(data)?;
+    for w in loaded.warnings() {
+        eprintln!("{w}");
+    }
+    Ok(loaded)
 }
 
 fn default_output(project: &Path) -> PathBuf {

@@ -54,6 +54,9 @@ pub struct Settings {
     pub unset_conditions: Vec<usize>,
     /// Where a compartment's conditions come from, when the settings say.
     pub condition_sources: std::collections::BTreeMap<usize, String>,
+    /// Metabolites and reactions whose energy a side table supplied.
+    pub table_metabolites: std::collections::BTreeSet<usize>,
+    pub table_reactions: std::collections::BTreeSet<usize>,
 }
 
 /// A Markdown note shown in the report.
@@ -71,6 +74,8 @@ pub struct Project {
     pub settings: Settings,
     pub model: Model,
     pub notes: Vec<Note>,
+    /// Side tables applied so far (their claims and warnings).
+    pub tables: tables::TableSession,
 }
 
 impl Project {
@@ -122,10 +127,44 @@ impl Project {
                 currencies: Default::default(),
                 unset_conditions,
                 condition_sources: Default::default(),
+                table_metabolites: Default::default(),
+                table_reactions: Default::default(),
             },
             model,
             notes: Vec::new(),
+            tables: Default::default(),
         }
+    }
+
+    /// Apply more side tables (`--data`), after those `gibbsite.yaml` names.
+    /// Every problem of every table is reported together.
+    pub fn add_tables(&mut self, paths: &[PathBuf]) -> Result<()> {
+        let mut diagnostics = Vec::new();
+        for path in paths {
+            if !path.is_file() {
+                diagnostics.push(Diagnostic::new(path, "table not found"));
+                continue;
+            }
+            if let Err(ds) = tables::apply_side_table(path, &mut self.model, &mut self.tables) {
+                diagnostics.extend(ds);
+            }
+        }
+        self.settings.table_metabolites = self.tables.metabolites_with_energy.clone();
+        self.settings.table_reactions = self.tables.reactions_with_energy.clone();
+        if diagnostics.is_empty() {
+            Ok(())
+        } else {
+            Err(Error::Input(diagnostics))
+        }
+    }
+
+    /// Problems that did not stop loading, as `file:line: warning: message`.
+    pub fn warnings(&self) -> Vec<String> {
+        self.tables
+            .warnings
+            .iter()
+            .map(|d| d.to_string().replacen(": error: ", ": warning: ", 1))
+            .collect()
     }
 }
 
@@ -274,7 +313,8 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         .filter_map(|(i, c)| Some((*i, c.source.clone()?)))
         .collect();
     let unset_conditions = unset_compartments(&model, &stated);
-    apply_side_tables(&mut model, &raw, &root, settings_path, &map)?;
+    let mut session = tables::TableSession::default();
+    apply_side_tables(&mut model, &raw, &root, settings_path, &map, &mut session)?;
     apply_role_overrides(&mut model, &raw, settings_path, &map)?;
     check_currency_ids(&model, &raw, settings_path, &map)?;
     let notes = match &notes_dir {
@@ -299,9 +339,12 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
                 .collect(),
             unset_conditions,
             condition_sources,
+            table_metabolites: session.metabolites_with_energy.clone(),
+            table_reactions: session.reactions_with_energy.clone(),
         },
         model,
         notes,
+        tables: session,
     })
 }
 
@@ -318,6 +361,7 @@ fn apply_side_tables(
     root: &Path,
     settings_path: &Path,
     map: &sourcemap::SourceMap,
+    session: &mut tables::TableSession,
 ) -> Result<()> {
     let Some(tables) = &raw.tables else {
         return Ok(());
@@ -340,7 +384,7 @@ fn apply_side_tables(
             );
             continue;
         }
-        if let Err(ds) = tables::apply_side_table(&path, model) {
+        if let Err(ds) = tables::apply_side_table(&path, model, session) {
             diagnostics.extend(ds);
         }
     }
