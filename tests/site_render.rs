@@ -659,6 +659,7 @@ fn fixture() -> Report {
                 .into(),
         }],
         loops: Some(loops_view()),
+        coverage: None,
     }
 }
 
@@ -728,6 +729,7 @@ fn all_expected_files_exist_and_nothing_else() {
         MARKER_FILE,
         "index.html",
         "findings.html",
+        "coverage.html",
         "report.json",
         "assets/style.css",
         "assets/table.js",

@@ -120,7 +120,8 @@ fn two_rows_reaching_one_metabolite_conflict_with_both_positions() {
         "t.csv",
         "metabolite,dfg\nchebi:4167,-400\nkegg.compound:C00031,-410\n",
     );
-    let Err(gibbsite::Error::Input(d)) = load(dir.path(), MODEL_B, std::slice::from_ref(&table)) else {
+    let Err(gibbsite::Error::Input(d)) = load(dir.path(), MODEL_B, std::slice::from_ref(&table))
+    else {
         panic!("expected a conflict");
     };
     let t = table.display();

@@ -121,6 +121,7 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
             })
             .collect(),
         loops: loops_view(model, analysis),
+        coverage: Some(super::coverage::coverage(analysis)),
     }
 }
 
