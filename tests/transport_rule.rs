@@ -42,6 +42,6 @@ fn symport_gets_a_marked_verdict_and_chemistry_does_not() {
     let out = dir.path().join("site");
     gibbsite::site::render(&report, None, &out).unwrap();
     let page = std::fs::read_to_string(out.join("reactions/LACt.html")).unwrap();
-    assert!(page.contains("(transport, single-species approximation)"));
+    assert!(page.contains("<strong>transport, single-species approximation (Jol et al."));
     assert!(page.contains("Transport, single-species approximation</h2>"));
 }

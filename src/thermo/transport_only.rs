@@ -37,11 +37,9 @@ use super::legendre::{debye_huckel_factor, rt_alpha, Conditions, Transform};
 use super::transport::{self, CompartmentState, Participant, TransportBreakdown};
 use crate::model::{Metabolite, Model, Special};
 
-/// How the origin of such a ΔrG'° is named in the report.
-pub const LABEL: &str = "transport, single-species approximation";
-
-/// Citation shown with every such value.
-pub const SOURCE: &str = "transport, single-species approximation (Jol et al., Biophys. J. 99 (2010) 3139): ΔrG'° from the compartments' pH, ionic strength and potential alone";
+/// Source of every such value (report.json and the reaction page); it
+/// starts with the name the report gives the approximation.
+pub const SOURCE: &str = "transport, single-species approximation (Jol et al., Biophys. J. 99 (2010) 3139): from the compartments' pH, ionic strength and potential alone";
 
 /// Coefficient sums below this count as zero (compound fully moved).
 const BALANCE_TOLERANCE: f64 = 1e-9;
