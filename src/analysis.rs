@@ -24,6 +24,9 @@ pub enum EnergyOrigin {
     Reaction,
     /// Σ ν·ΔfG'° of its participants.
     Formation,
+    /// A pure transport step without formation energies: the single-species
+    /// rule of `thermo::transport_only`.
+    TransportRule,
 }
 
 impl EnergyOrigin {
@@ -31,6 +34,7 @@ impl EnergyOrigin {
         match self {
             EnergyOrigin::Reaction => "reaction",
             EnergyOrigin::Formation => "formation",
+            EnergyOrigin::TransportRule => "transport-rule",
         }
     }
 }
@@ -250,7 +254,8 @@ impl<'a> Analysis<'a> {
             let r = &self.model.reactions[j];
             let mut net: std::collections::BTreeMap<usize, f64> = Default::default();
             match thermo {
-                Ok(t) if t.origin == EnergyOrigin::Reaction => {
+                Ok(t) if t.origin != EnergyOrigin::Formation => {
+                    // A given ΔrG'° or the transport rule: one source per reaction.
                     let s = source_of(
                         ErrorKey::Reaction(j),
                         &|| format!("ΔrG'° of {}", r.id),
@@ -361,9 +366,8 @@ impl<'a> Analysis<'a> {
                 e.source.clone(),
                 None,
             ),
-            None => {
-                let (value, transport) = self.formation_energy_sum(j)?;
-                (
+            None => match self.formation_energy_sum(j) {
+                Ok((value, transport)) => (
                     value,
                     // Filled in from the error model once every reaction is
                     // known (errors are shared per compound, not per term).
@@ -371,8 +375,9 @@ impl<'a> Analysis<'a> {
                     EnergyOrigin::Formation,
                     "Σ ν·ΔfG'°".to_string(),
                     transport,
-                )
-            }
+                ),
+                Err(missing) => self.transport_rule(j).ok_or(missing)?,
+            },
         };
         let participants = self.participants(j);
         Ok(ReactionThermo {
@@ -469,6 +474,28 @@ impl<'a> Analysis<'a> {
         }
     }
 
+    /// ΔrG'° of a pure transport step from compartment conditions alone.
+    fn transport_rule(
+        &self,
+        j: usize,
+    ) -> Option<(f64, f64, EnergyOrigin, String, Option<TransportTerms>)> {
+        let e = crate::thermo::transport_only::estimate(self.model, j).ok()?;
+        let b = &e.breakdown;
+        let terms = TransportTerms {
+            formation_sum_kj: b.formation_sum_kj,
+            proton_term_kj: b.proton_term_kj,
+            electrical_term_kj: b.electrical_term_kj,
+            reference_independent: b.is_reference_independent(),
+        };
+        Some((
+            e.value_kj,
+            e.sigma_kj,
+            EnergyOrigin::TransportRule,
+            crate::thermo::transport_only::SOURCE.to_string(),
+            Some(terms),
+        ))
+    }
+
     /// Verdict for flux of reaction `j` in `direction` (+1 / −1).
     pub fn verdict(&self, j: usize, direction: f64) -> Verdict {
         match &self.reaction_thermo[j] {
@@ -493,6 +520,7 @@ impl<'a> Analysis<'a> {
             .iter()
             .flat_map(|check| (check.run)(self))
             .collect();
+        checks::compartment_conditions::soften(self, &mut findings);
         crate::report::build::sort_findings(&mut findings);
         findings
     }

@@ -36,6 +36,10 @@ enum Command {
         /// Earlier report.json: only findings not in it decide the exit code.
         #[arg(long)]
         baseline: Option<PathBuf>,
+        /// Side table of ΔG data or concentrations (CSV/TSV), keyed by model
+        /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
+        #[arg(long = "data", value_name = "TABLE")]
+        data: Vec<PathBuf>,
     },
     /// Convert an SBML model (.xml or .xml.gz) into a gibbsite project folder.
     Import {
@@ -44,6 +48,10 @@ enum Command {
         /// Project folder to write (model.yaml and gibbsite.yaml).
         #[arg(short, long)]
         output: PathBuf,
+        /// YAML file of compartment conditions (`compartments: {m: {ph: 7.8,
+        /// potential: -155 mV}}`), written into gibbsite.yaml.
+        #[arg(long)]
+        conditions: Option<PathBuf>,
     },
     /// Analyse a project and print the findings; writes nothing.
     Check {
@@ -54,6 +62,10 @@ enum Command {
         /// Earlier report.json: only findings not in it decide the exit code.
         #[arg(long)]
         baseline: Option<PathBuf>,
+        /// Side table of ΔG data or concentrations (CSV/TSV), keyed by model
+        /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
+        #[arg(long = "data", value_name = "TABLE")]
+        data: Vec<PathBuf>,
         /// What to print on standard output.
         #[arg(long, value_enum, default_value_t = Format::Text)]
         format: Format,
@@ -109,9 +121,10 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             output,
             fail_on,
             baseline,
+            data,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = Project::load(&project)?;
+            let loaded = load(&project, &data)?;
             let report = loaded.analyse();
             let out = output.unwrap_or_else(|| default_output(&project));
             gibbsite::site::render(&report, loaded.settings.theme_dir.as_deref(), &out)?;
@@ -119,9 +132,18 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             eprintln!("site written to {}", out.display());
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
-        Command::Import { model, output } => {
+        Command::Import {
+            model,
+            output,
+            conditions,
+        } => {
             let model = gibbsite::project::sbml::read_sbml(&model)?;
-            gibbsite::project::write::write_project(&model, &output)?;
+            let conditions = conditions
+                .as_deref()
+                .map(|p| gibbsite::project::conditions::read_file(p, &model))
+                .transpose()?
+                .unwrap_or_default();
+            gibbsite::project::write::write_project_with_conditions(&model, &output, &conditions)?;
             eprintln!(
                 "{} reactions, {} metabolites, {} compartments written to {}",
                 model.reactions.len(),
@@ -136,9 +158,10 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             fail_on,
             baseline,
             format,
+            data,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = Project::load(&project)?;
+            let loaded = load(&project, &data)?;
             let report = loaded.analyse();
             let model_file = loaded
                 .settings
@@ -160,6 +183,16 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
     }
+}
+
+/// Load a project, apply `--data` tables and print load warnings.
+fn load(project: &Path, data: &[PathBuf]) -> Result<Project, Error> {
+    let mut loaded = Project::load(project)?;
+    loaded.add_tables(data)?;
+    for w in loaded.warnings() {
+        eprintln!("{w}");
+    }
+    Ok(loaded)
 }
 
 fn default_output(project: &Path) -> PathBuf {

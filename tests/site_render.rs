@@ -618,6 +618,8 @@ fn fixture() -> Report {
                 potential_mv: 0.0,
                 temperature_k: 298.15,
                 pmg: None,
+                conditions_stated: false,
+                conditions_source: None,
             },
             CompartmentView {
                 id: "c".into(),
@@ -627,6 +629,8 @@ fn fixture() -> Report {
                 potential_mv: -100.0,
                 temperature_k: 298.15,
                 pmg: Some(3.0),
+                conditions_stated: true,
+                conditions_source: Some("a lab notebook".into()),
             },
         ],
         metabolites: vec![
@@ -659,6 +663,7 @@ fn fixture() -> Report {
         }],
         loops: Some(loops_view()),
         joint_scenarios: Vec::new(),
+        coverage: None,
     }
 }
 
@@ -728,6 +733,7 @@ fn all_expected_files_exist_and_nothing_else() {
         MARKER_FILE,
         "index.html",
         "findings.html",
+        "coverage.html",
         "report.json",
         "assets/style.css",
         "assets/table.js",
@@ -1592,7 +1598,16 @@ fn overview_states_the_basis_of_every_verdict_and_the_conditions() {
     assert_eq!(
         rows[1..],
         [
-            ["c", "cytosol", "7", "250 mM", "−100 mV", "298.15 K", "3"],
+            [
+                "c",
+                "cytosol",
+                "7",
+                "250 mM",
+                "−100 mV",
+                "298.15 K",
+                "3",
+                "a lab notebook"
+            ],
             [
                 "p",
                 "peri&quot;&lt;b&gt;plasm&lt;&#x2f;b&gt;",
@@ -1600,7 +1615,8 @@ fn overview_states_the_basis_of_every_verdict_and_the_conditions() {
                 "100 mM",
                 "0 mV",
                 "298.15 K",
-                "—"
+                "—",
+                "not stated: defaults (pH 7, 0 mV)"
             ],
         ]
     );

@@ -6,6 +6,7 @@ use crate::report::Finding;
 
 pub mod balance;
 pub mod bounds_audit;
+pub mod compartment_conditions;
 pub mod copied_energy;
 pub mod energy_cycles;
 pub mod internal_loops;
@@ -34,6 +35,7 @@ pub const REGISTRY: &[Check] = &[
     scenario_directions::CHECK,
     scenario_joint::CHECK,
     missing_energy::CHECK,
+    compartment_conditions::CHECK,
     internal_loops::CHECK,
     energy_cycles::CHECK,
 ];

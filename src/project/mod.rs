@@ -5,6 +5,7 @@
 //! model file (`*.yaml`) or an SBML file may also be given directly; it then
 //! runs with default settings. Nothing here writes anything.
 
+pub mod conditions;
 pub mod equation;
 pub mod model_file;
 pub mod sbml;
@@ -48,6 +49,14 @@ pub struct Settings {
     pub loops: bool,
     /// Currency key → metabolite ids, overriding automatic recognition.
     pub currencies: std::collections::BTreeMap<String, Vec<String>>,
+    /// Compartments (indices, ascending) whose pH and potential nobody
+    /// stated: they run at the defaults (pH 7, 0 mV).
+    pub unset_conditions: Vec<usize>,
+    /// Where a compartment's conditions come from, when the settings say.
+    pub condition_sources: std::collections::BTreeMap<usize, String>,
+    /// Metabolites and reactions whose energy a side table supplied.
+    pub table_metabolites: std::collections::BTreeSet<usize>,
+    pub table_reactions: std::collections::BTreeSet<usize>,
 }
 
 /// A Markdown note shown in the report.
@@ -65,6 +74,8 @@ pub struct Project {
     pub settings: Settings,
     pub model: Model,
     pub notes: Vec<Note>,
+    /// Side tables applied so far (their claims and warnings).
+    pub tables: tables::TableSession,
 }
 
 impl Project {
@@ -92,12 +103,16 @@ impl Project {
                 "no such file or folder; expected a project folder, gibbsite.yaml, a model .yaml or an SBML file",
             )));
         }
-        let model = load_model_files(&[path.to_path_buf()], &[])?;
-        Ok(Project::with_defaults(path, model))
+        let (model, stated) = load_model_files_stated(&[path.to_path_buf()], &[])?;
+        let mut project = Project::with_defaults(path, model);
+        project.settings.unset_conditions = unset_compartments(&project.model, &stated);
+        Ok(project)
     }
 
-    /// A project around a model with every setting at its default.
+    /// A project around a model with every setting at its default; no
+    /// compartment has stated conditions (as for SBML).
     pub fn with_defaults(path: &Path, model: Model) -> Project {
+        let unset_conditions = (0..model.compartments.len()).collect();
         Project {
             root: path.parent().unwrap_or(Path::new(".")).to_path_buf(),
             settings: Settings {
@@ -110,10 +125,46 @@ impl Project {
                 min_driving_force_kj: DEFAULT_MIN_DRIVING_FORCE_KJ,
                 loops: true,
                 currencies: Default::default(),
+                unset_conditions,
+                condition_sources: Default::default(),
+                table_metabolites: Default::default(),
+                table_reactions: Default::default(),
             },
             model,
             notes: Vec::new(),
+            tables: Default::default(),
         }
+    }
+
+    /// Apply more side tables (`--data`), after those `gibbsite.yaml` names.
+    /// Every problem of every table is reported together.
+    pub fn add_tables(&mut self, paths: &[PathBuf]) -> Result<()> {
+        let mut diagnostics = Vec::new();
+        for path in paths {
+            if !path.is_file() {
+                diagnostics.push(Diagnostic::new(path, "table not found"));
+                continue;
+            }
+            if let Err(ds) = tables::apply_side_table(path, &mut self.model, &mut self.tables) {
+                diagnostics.extend(ds);
+            }
+        }
+        self.settings.table_metabolites = self.tables.metabolites_with_energy.clone();
+        self.settings.table_reactions = self.tables.reactions_with_energy.clone();
+        if diagnostics.is_empty() {
+            Ok(())
+        } else {
+            Err(Error::Input(diagnostics))
+        }
+    }
+
+    /// Problems that did not stop loading, as `file:line: warning: message`.
+    pub fn warnings(&self) -> Vec<String> {
+        self.tables
+            .warnings
+            .iter()
+            .map(|d| d.to_string().replacen(": error: ", ": warning: ", 1))
+            .collect()
     }
 }
 
@@ -239,8 +290,31 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         .enumerate()
         .map(|(i, s)| (settings_path.to_path_buf(), &map, s.clone(), i))
         .collect();
-    let mut model = load_model_files(&model_files, &extra)?;
-    apply_side_tables(&mut model, &raw, &root, settings_path, &map)?;
+    let (mut model, mut stated) = load_model_files_stated(&model_files, &extra)?;
+    let given = conditions::validate(
+        settings_path,
+        &map,
+        &raw.compartments,
+        &model,
+        &mut diagnostics,
+    );
+    if !diagnostics.is_empty() {
+        return Err(Error::Input(diagnostics));
+    }
+    conditions::apply(&mut model, &given);
+    stated.extend(
+        given
+            .iter()
+            .filter(|(_, c)| c.states_ph_or_potential())
+            .map(|(i, _)| model.compartments[*i].id.clone()),
+    );
+    let condition_sources = given
+        .iter()
+        .filter_map(|(i, c)| Some((*i, c.source.clone()?)))
+        .collect();
+    let unset_conditions = unset_compartments(&model, &stated);
+    let mut session = tables::TableSession::default();
+    apply_side_tables(&mut model, &raw, &root, settings_path, &map, &mut session)?;
     apply_role_overrides(&mut model, &raw, settings_path, &map)?;
     check_currency_ids(&model, &raw, settings_path, &map)?;
     let notes = match &notes_dir {
@@ -263,10 +337,22 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
                 .iter()
                 .map(|(k, v)| (k.clone(), v.0.clone()))
                 .collect(),
+            unset_conditions,
+            condition_sources,
+            table_metabolites: session.metabolites_with_energy.clone(),
+            table_reactions: session.reactions_with_energy.clone(),
         },
         model,
         notes,
+        tables: session,
     })
+}
+
+/// Compartments whose id is not among `stated`, ascending.
+fn unset_compartments(model: &Model, stated: &std::collections::BTreeSet<String>) -> Vec<usize> {
+    (0..model.compartments.len())
+        .filter(|&c| !stated.contains(&model.compartments[c].id))
+        .collect()
 }
 
 fn apply_side_tables(
@@ -275,6 +361,7 @@ fn apply_side_tables(
     root: &Path,
     settings_path: &Path,
     map: &sourcemap::SourceMap,
+    session: &mut tables::TableSession,
 ) -> Result<()> {
     let Some(tables) = &raw.tables else {
         return Ok(());
@@ -297,7 +384,7 @@ fn apply_side_tables(
             );
             continue;
         }
-        if let Err(ds) = tables::apply_side_table(&path, model) {
+        if let Err(ds) = tables::apply_side_table(&path, model, session) {
             diagnostics.extend(ds);
         }
     }
@@ -380,10 +467,19 @@ pub fn load_model_files(
     files: &[PathBuf],
     extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
 ) -> Result<Model> {
+    load_model_files_stated(files, extra_scenarios).map(|(model, _)| model)
+}
+
+/// As [`load_model_files`], with the ids of compartments whose model file
+/// states a pH or a potential (none for SBML, which has no such data).
+fn load_model_files_stated(
+    files: &[PathBuf],
+    extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
+) -> Result<(Model, std::collections::BTreeSet<String>)> {
     if let [single] = files {
         let name = single.to_string_lossy().to_lowercase();
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
-            return sbml::read_sbml(single);
+            return Ok((sbml::read_sbml(single)?, Default::default()));
         }
     }
     let mut diagnostics = Vec::new();
@@ -411,8 +507,14 @@ pub fn load_model_files(
     } else {
         None
     };
+    let stated = sources
+        .iter()
+        .flat_map(|s| &s.raw.compartments)
+        .filter(|c| c.ph.is_some() || c.potential.is_some())
+        .map(|c| c.id.clone())
+        .collect();
     match model {
-        Some(m) if diagnostics.is_empty() => Ok(m),
+        Some(m) if diagnostics.is_empty() => Ok((m, stated)),
         _ => {
             diagnostics.sort();
             diagnostics.dedup();

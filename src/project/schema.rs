@@ -158,6 +158,27 @@ pub struct RawSettings {
     /// Reaction id → role, overriding the model (and SBML inference).
     #[serde(default)]
     pub roles: BTreeMap<String, String>,
+    /// Compartment id → conditions, overriding the model's (SBML has none).
+    #[serde(default)]
+    pub compartments: BTreeMap<String, RawConditions>,
+}
+
+/// Conditions of one compartment set in `gibbsite.yaml` or a conditions file.
+#[derive(Debug, Clone, serde::Deserialize)]
+pub struct RawConditions {
+    pub ph: Option<RawQuantity>,
+    pub ionic_strength: Option<RawQuantity>,
+    pub potential: Option<RawQuantity>,
+    pub temperature: Option<RawQuantity>,
+    /// Where the values come from (shown in the report).
+    pub source: Option<String>,
+}
+
+/// A conditions file for `gibbsite import --conditions`.
+#[derive(Debug, Clone, serde::Deserialize)]
+pub struct RawConditionsFile {
+    #[serde(default)]
+    pub compartments: BTreeMap<String, RawConditions>,
 }
 
 /// A string or a list of strings.
@@ -192,6 +213,8 @@ impl<'de> Deserialize<'de> for OneOrMany {
 pub enum FileKind {
     Model,
     Settings,
+    /// A compartment conditions file (`import --conditions`).
+    Conditions,
 }
 
 /// Field names valid at `path` (the parent of an unknown key), if it is a struct.
@@ -229,6 +252,10 @@ pub fn expected_fields(kind: FileKind, path: &[Segment]) -> Option<&'static [&'s
         (FileKind::Settings, []) => fields_of::<RawSettings>(),
         (FileKind::Settings, [a]) if k(a, "default_concentration") => fields_of::<RawRange>(),
         (FileKind::Settings, [a, Index(_)]) if k(a, "scenarios") => fields_of::<RawScenario>(),
+        (FileKind::Settings | FileKind::Conditions, [a, Key(_)]) if k(a, "compartments") => {
+            fields_of::<RawConditions>()
+        }
+        (FileKind::Conditions, []) => fields_of::<RawConditionsFile>(),
         _ => return None,
     };
     Some(fields)

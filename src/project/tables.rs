@@ -103,7 +103,7 @@ fn io_text(e: &csv::Error) -> String {
 enum RowValue {
     Metabolite {
         index: usize,
-        dfg: Option<(f64, f64, String)>,
+        dfg: Option<(f64, f64, String, Option<crate::model::StatedConditions>)>,
         species: Option<(crate::model::Species, f64, String)>,
         range: Option<(f64, f64)>,
         measured: Option<f64>,
@@ -128,8 +128,82 @@ const METABOLITE_COLUMNS: &[&str] = &[
     "charge",
     "hydrogens",
     "magnesium",
+    "ph",
+    "ionic_strength",
+    "temperature",
 ];
 const REACTION_COLUMNS: &[&str] = &["reaction", "drg", "sigma", "source"];
+
+/// Cross-reference namespaces a metabolite row may be keyed by.
+pub const METABOLITE_NAMESPACES: &[&str] = &[
+    "chebi",
+    "kegg.compound",
+    "metanetx.chemical",
+    "inchikey",
+    "bigg.metabolite",
+];
+/// Cross-reference namespaces a reaction row may be keyed by (`ec-code`
+/// only when one reaction of the model carries it).
+pub const REACTION_NAMESPACES: &[&str] = &["kegg.reaction", "rhea", "metanetx.reaction", "ec-code"];
+
+/// State shared by all side tables of one run: which row set each
+/// metabolite or reaction, so that two rows reaching one metabolite through
+/// different cross-references are caught across files; the warnings; and
+/// what the tables supplied (for the coverage view).
+/// Which row set an entity: (file, line, key as written).
+type Claim = (std::path::PathBuf, usize, String);
+
+#[derive(Debug, Clone, Default)]
+pub struct TableSession {
+    /// (is reaction, index) → the row that set it.
+    claims: HashMap<(bool, usize), Claim>,
+    /// (is reaction, index) set by a row keyed by its model id: such rows
+    /// win over rows keyed by a cross-reference, in any order.
+    by_id: std::collections::HashSet<(bool, usize)>,
+    /// Problems that do not stop the run (e.g. a row matching nothing).
+    pub warnings: Vec<Diagnostic>,
+    /// Metabolites / reactions that got an energy from a table.
+    pub metabolites_with_energy: std::collections::BTreeSet<usize>,
+    pub reactions_with_energy: std::collections::BTreeSet<usize>,
+}
+
+/// How a row's first cell names what it is about.
+enum RowKey {
+    /// A model id.
+    Id(usize),
+    /// A cross-reference and every entity carrying it.
+    Xref(Vec<usize>),
+}
+
+/// `namespace:id` split and normalised the way imported cross-references
+/// are; ids compared without case except BiGG's.
+fn xref_key(namespace: &str, id: &str) -> (String, String) {
+    let (ns, id) = super::sbml::normalise_xref(namespace, id);
+    if ns.starts_with("bigg.") {
+        (ns, id)
+    } else {
+        let id = id.to_uppercase();
+        (ns, id)
+    }
+}
+
+/// (namespace, id) → entities carrying that cross-reference.
+fn xref_index<'a>(
+    xrefs: impl Iterator<Item = &'a std::collections::BTreeMap<String, Vec<String>>>,
+) -> HashMap<(String, String), Vec<usize>> {
+    let mut index: HashMap<(String, String), Vec<usize>> = HashMap::new();
+    for (i, map) in xrefs.enumerate() {
+        for (ns, ids) in map {
+            for id in ids {
+                let entry = index.entry(xref_key(ns, id)).or_default();
+                if entry.last() != Some(&i) {
+                    entry.push(i);
+                }
+            }
+        }
+    }
+    index
+}
 
 /// Apply a side table of ΔG data or concentrations (CSV, or TSV by
 /// extension) to the model. Keyed by `metabolite` or `reaction` in the
@@ -138,6 +212,7 @@ const REACTION_COLUMNS: &[&str] = &["reaction", "drg", "sigma", "source"];
 pub fn apply_side_table(
     path: &Path,
     model: &mut crate::model::Model,
+    session: &mut TableSession,
 ) -> Result<(), Vec<Diagnostic>> {
     let mut reader = open_table(path)?;
     let headers: Vec<String> = match reader.headers() {
@@ -189,8 +264,26 @@ pub fn apply_side_table(
             .map(|(i, m)| (m.id.as_str(), i))
             .collect()
     };
-    let mut rows = Vec::new();
-    let mut seen: HashMap<usize, usize> = HashMap::new();
+    let xrefs = if is_reaction_table {
+        xref_index(model.reactions.iter().map(|r| &r.xrefs))
+    } else {
+        xref_index(model.metabolites.iter().map(|m| &m.xrefs))
+    };
+    let (what, namespaces) = if is_reaction_table {
+        ("reaction", REACTION_NAMESPACES)
+    } else {
+        ("metabolite", METABOLITE_NAMESPACES)
+    };
+    let entity_id = |index: usize| -> &str {
+        if is_reaction_table {
+            &model.reactions[index].id
+        } else {
+            &model.metabolites[index].id
+        }
+    };
+    let mut rows: Vec<(Vec<usize>, bool, RowValue)> = Vec::new();
+    let mut claims: Vec<((bool, usize), Claim)> = Vec::new();
+    let mut seen: HashMap<usize, (usize, String)> = HashMap::new();
     for record in reader.records() {
         let record = match record {
             Ok(r) => r,
@@ -206,19 +299,71 @@ pub fn apply_side_table(
                 .filter(|v| !v.is_empty())
         };
         let id = record.get(0).unwrap_or("");
-        let Some(&index) = ids.get(id) else {
-            let what = if is_reaction_table {
-                "reaction"
-            } else {
-                "metabolite"
-            };
-            let mut d = Diagnostic::new(path, format!("unknown {what} `{id}`")).at(line, 1);
-            if let Some(best) = super::schema::did_you_mean(id, ids.keys().copied()) {
-                d = d.hint(format!("did you mean `{best}`?"));
-            }
-            problems.push(d);
-            continue;
+        let key = match ids.get(id) {
+            Some(&index) => RowKey::Id(index),
+            None => match id.split_once(':') {
+                Some((ns, local)) if namespaces.contains(&xref_key(ns, local).0.as_str()) => {
+                    let (ns, local) = xref_key(ns, local);
+                    let targets = xrefs.get(&(ns.clone(), local)).cloned().unwrap_or_default();
+                    if ns == "ec-code" && targets.len() > 1 {
+                        session.warnings.push(
+                            Diagnostic::new(
+                                path,
+                                format!(
+                                    "`{id}` names {} reactions ({}); an EC number is used only when one reaction carries it, so this row is skipped",
+                                    targets.len(),
+                                    targets.iter().map(|&j| entity_id(j)).collect::<Vec<_>>().join(", ")
+                                ),
+                            )
+                            .at(line, 1),
+                        );
+                        continue;
+                    }
+                    if targets.is_empty() {
+                        session.warnings.push(
+                            Diagnostic::new(
+                                path,
+                                format!("`{id}` matches no {what} of the model; row skipped"),
+                            )
+                            .at(line, 1),
+                        );
+                        continue;
+                    }
+                    RowKey::Xref(targets)
+                }
+                Some((ns, _)) if !ns.is_empty() && !ns.contains(char::is_whitespace) => {
+                    problems.push(
+                        Diagnostic::new(
+                            path,
+                            format!("unknown cross-reference namespace `{ns}` in `{id}`"),
+                        )
+                        .at(line, 1)
+                        .hint(format!(
+                            "{what} rows may be keyed by a model id or by {}",
+                            namespaces
+                                .iter()
+                                .map(|n| format!("`{n}:…`"))
+                                .collect::<Vec<_>>()
+                                .join(", ")
+                        )),
+                    );
+                    continue;
+                }
+                _ => {
+                    let mut d = Diagnostic::new(path, format!("unknown {what} `{id}`")).at(line, 1);
+                    if let Some(best) = super::schema::did_you_mean(id, ids.keys().copied()) {
+                        d = d.hint(format!("did you mean `{best}`?"));
+                    }
+                    problems.push(d);
+                    continue;
+                }
+            },
         };
+        let (targets, by_xref) = match key {
+            RowKey::Id(index) => (vec![index], false),
+            RowKey::Xref(targets) => (targets, true),
+        };
+        let index = targets[0];
         let mut row_problems = Vec::new();
         let mut number = |name: &str, kind: Kind| -> Option<f64> {
             let text = cell(name)?;
@@ -240,7 +385,13 @@ pub fn apply_side_table(
                 drg: (v, sigma, source),
             })
         } else {
-            let dfg = number("dfg", Kind::Energy).map(|v| (v, sigma, source.clone()));
+            let at = crate::model::StatedConditions {
+                ph: number("ph", Kind::Plain),
+                ionic_strength_m: number("ionic_strength", Kind::IonicStrength),
+                temperature_k: number("temperature", Kind::Temperature),
+            };
+            let at = (at != crate::model::StatedConditions::default()).then_some(at);
+            let dfg = number("dfg", Kind::Energy).map(|v| (v, sigma, source.clone(), at));
             let dfg0 = number("dfg0", Kind::Energy);
             let dfh0 = number("dfh0", Kind::Energy);
             let min = number("min", Kind::Concentration);
@@ -336,17 +487,68 @@ pub fn apply_side_table(
                 ..
             })
         );
-        if let Some(first) = seen.insert(index, line) {
-            if !species_row {
-                row_problems.push(
-                    Diagnostic::new(path, format!("`{id}` appears twice"))
-                        .at(line, 1)
-                        .hint(format!("first row at line {first}")),
-                );
+        for &target in &targets {
+            match seen.get(&target) {
+                Some((first, first_key)) if first_key == id && !species_row && target == index => {
+                    row_problems.push(
+                        Diagnostic::new(path, format!("`{id}` appears twice"))
+                            .at(line, 1)
+                            .hint(format!("first row at line {first}")),
+                    );
+                }
+                Some((_, first_key)) if first_key == id => {}
+                // Two cross-references reaching one entity: a conflict. A
+                // model id next to a cross-reference is not: the id wins.
+                Some((first, first_key)) if by_xref && !ids.contains_key(first_key.as_str()) => {
+                    row_problems.push(
+                        Diagnostic::new(
+                            path,
+                            format!(
+                                "`{}` gets data from two rows: `{first_key}` at {}:{first} and `{id}` at {}:{line}",
+                                entity_id(target),
+                                path.display(),
+                                path.display()
+                            ),
+                        )
+                        .at(line, 1),
+                    );
+                }
+                _ => {}
             }
+            if by_xref {
+                if let Some((file, first, first_key)) =
+                    session.claims.get(&(is_reaction_table, target))
+                {
+                    if file != path {
+                        row_problems.push(
+                            Diagnostic::new(
+                                path,
+                                format!(
+                                    "`{}` gets data from two rows: `{first_key}` at {}:{first} and `{id}` at {}:{line}",
+                                    entity_id(target),
+                                    file.display(),
+                                    path.display()
+                                ),
+                            )
+                            .at(line, 1),
+                        );
+                    }
+                }
+            }
+            seen.entry(target).or_insert((line, id.to_string()));
         }
         if row_problems.is_empty() {
-            rows.extend(value);
+            if let Some(value) = value {
+                if by_xref {
+                    for &target in &targets {
+                        claims.push((
+                            (is_reaction_table, target),
+                            (path.to_path_buf(), line, id.to_string()),
+                        ));
+                    }
+                }
+                rows.push((targets, by_xref, value));
+            }
         } else {
             problems.extend(row_problems);
         }
@@ -354,57 +556,84 @@ pub fn apply_side_table(
     if !problems.is_empty() {
         return Err(problems);
     }
+    for (key, claim) in claims {
+        session.claims.entry(key).or_insert(claim);
+    }
+    // Rows keyed by cross-reference first, so that model ids win.
+    rows.sort_by_key(|(_, by_xref, _)| !*by_xref);
     let mut fresh_species: std::collections::HashSet<usize> = Default::default();
-    for row in rows {
-        match row {
-            RowValue::Reaction {
-                index,
-                drg: (v, s, src),
-            } => {
-                model.reactions[index].drg_prime = Some(crate::model::Energy {
-                    value_kj: v,
-                    sigma_kj: s,
-                    source: src,
-                    at: None,
-                });
+    for (targets, by_xref, row) in rows {
+        for target in targets {
+            let key = (is_reaction_table, target);
+            if by_xref && session.by_id.contains(&key) {
+                continue;
             }
-            RowValue::Metabolite {
-                index,
-                dfg,
-                species,
-                range,
-                measured,
-            } => {
-                let m = &mut model.metabolites[index];
-                if let Some((v, s, src)) = dfg {
-                    m.dfg_prime = Some(crate::model::Energy {
-                        value_kj: v,
-                        sigma_kj: s,
-                        source: src,
-                        at: None,
-                    });
-                }
-                if let Some((sp, s, src)) = species {
-                    // The table's species replace the model's, row by row.
-                    if fresh_species.insert(index) {
-                        m.species = Some(crate::model::SpeciesData {
-                            species: Vec::new(),
-                            sigma_kj: s,
-                            source: src,
-                        });
-                    }
-                    if let Some(data) = &mut m.species {
-                        data.species.push(sp);
-                    }
-                }
-                if let Some((a, b)) = range {
-                    m.concentration = Some(crate::model::Range { min: a, max: b });
-                }
-                if measured.is_some() {
-                    m.measured_m = measured;
-                }
+            if !by_xref {
+                session.by_id.insert(key);
             }
+            apply_row(model, session, &mut fresh_species, target, row.clone());
         }
     }
     Ok(())
+}
+
+/// Set one row's values on metabolite or reaction `target`.
+fn apply_row(
+    model: &mut crate::model::Model,
+    session: &mut TableSession,
+    fresh_species: &mut std::collections::HashSet<usize>,
+    target: usize,
+    row: RowValue,
+) {
+    match row {
+        RowValue::Reaction {
+            drg: (v, s, src), ..
+        } => {
+            model.reactions[target].drg_prime = Some(crate::model::Energy {
+                value_kj: v,
+                sigma_kj: s,
+                source: src,
+                at: None,
+            });
+            session.reactions_with_energy.insert(target);
+        }
+        RowValue::Metabolite {
+            dfg,
+            species,
+            range,
+            measured,
+            ..
+        } => {
+            let m = &mut model.metabolites[target];
+            if let Some((v, s, src, at)) = dfg {
+                m.dfg_prime = Some(crate::model::Energy {
+                    value_kj: v,
+                    sigma_kj: s,
+                    source: src,
+                    at,
+                });
+                session.metabolites_with_energy.insert(target);
+            }
+            if let Some((sp, s, src)) = species {
+                // The table's species replace the model's, row by row.
+                if fresh_species.insert(target) {
+                    m.species = Some(crate::model::SpeciesData {
+                        species: Vec::new(),
+                        sigma_kj: s,
+                        source: src,
+                    });
+                }
+                if let Some(data) = &mut m.species {
+                    data.species.push(sp);
+                }
+                session.metabolites_with_energy.insert(target);
+            }
+            if let Some((a, b)) = range {
+                m.concentration = Some(crate::model::Range { min: a, max: b });
+            }
+            if measured.is_some() {
+                m.measured_m = measured;
+            }
+        }
+    }
 }

@@ -37,9 +37,17 @@ pub fn model_to_yaml(model: &Model) -> String {
         let mut f = Flow::default();
         f.str("id", &c.id);
         f.str("name", &c.name);
-        f.raw("ph", n(c.ph));
-        f.raw("ionic_strength", format!("{} M", n(c.ionic_strength_m)));
-        f.raw("potential", format!("{} mV", n(c.potential_mv)));
+        // Defaults are left out, so that the project still says nobody
+        // stated them (SBML carries no pH or potential).
+        if c.ph != super::model_file::DEFAULT_PH {
+            f.raw("ph", n(c.ph));
+        }
+        if c.ionic_strength_m != super::model_file::DEFAULT_IONIC_STRENGTH_M {
+            f.raw("ionic_strength", format!("{} M", n(c.ionic_strength_m)));
+        }
+        if c.potential_mv != 0.0 {
+            f.raw("potential", format!("{} mV", n(c.potential_mv)));
+        }
         if let Some(t) = c.temperature_k {
             f.raw("temperature", format!("{} K", n(t)));
         }
@@ -188,13 +196,24 @@ pub fn settings_yaml(title: &str, model_file: &str) -> String {
 /// Write `model.yaml` and `gibbsite.yaml` into `dir` (created if needed).
 /// Existing files are replaced only after both were written completely.
 pub fn write_project(model: &Model, dir: &Path) -> Result<()> {
+    write_project_with_conditions(model, dir, &[])
+}
+
+/// As [`write_project`], with compartment conditions written into
+/// `gibbsite.yaml` (`gibbsite import --conditions`).
+pub fn write_project_with_conditions(
+    model: &Model,
+    dir: &Path,
+    conditions: &[(usize, super::conditions::CompartmentConditions)],
+) -> Result<()> {
     std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
+    let mut settings = settings_yaml(&model.title, "model.yaml");
+    if !conditions.is_empty() {
+        settings.push_str(&super::conditions::to_yaml(model, conditions));
+    }
     let files = [
         ("model.yaml", model_to_yaml(model)),
-        (
-            super::SETTINGS_FILE,
-            settings_yaml(&model.title, "model.yaml"),
-        ),
+        (super::SETTINGS_FILE, settings),
     ];
     let mut staged = Vec::new();
     for (name, text) in &files {

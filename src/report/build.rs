@@ -104,6 +104,8 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
                 potential_mv: x.potential_mv,
                 temperature_k: model.compartment_temperature(c),
                 pmg: x.pmg,
+                conditions_stated: !project.settings.unset_conditions.contains(&c),
+                conditions_source: project.settings.condition_sources.get(&c).cloned(),
             })
             .collect(),
         metabolites: metabolite_views(model, analysis),
@@ -127,6 +129,7 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
                 metabolites: &metabolite_slugs(model),
             },
         ),
+        coverage: Some(super::coverage::coverage(analysis)),
     }
 }
 

@@ -7,6 +7,7 @@ use std::collections::BTreeMap;
 
 pub mod baseline;
 pub mod build;
+pub mod coverage;
 pub mod json;
 pub mod sarif;
 pub mod scenario_build;
@@ -99,6 +100,58 @@ pub struct Report {
     /// directions first.
     #[serde(default)]
     pub joint_scenarios: Vec<JointScenarioView>,
+    /// How far the ΔG data reach (see `report::coverage`).
+    #[serde(default)]
+    pub coverage: Option<CoverageView>,
+}
+
+/// Which internal reactions have a ΔrG'° (and so a direction verdict).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CoverageView {
+    pub internal_reactions: usize,
+    /// Internal reactions with a ΔrG'°.
+    pub with_energy: usize,
+    /// Reactions with a ΔrG'° by the source it is attributed to (every
+    /// source listed, zeros included; a Σ ν·ΔfG'° counts under the
+    /// strongest source among its terms: side table, model value, species
+    /// data, library).
+    pub by_source: Vec<SourceCountView>,
+    /// Per compartment: internal reactions with a participant there.
+    pub by_compartment: Vec<GroupCoverageView>,
+    /// Per reaction group (`(no group)` for the rest), sorted by label.
+    pub by_group: Vec<GroupCoverageView>,
+    /// Metabolites whose missing ΔfG'° leaves internal reactions without
+    /// ΔrG'°, most blocking first.
+    pub missing: Vec<MissingMetaboliteView>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct SourceCountView {
+    /// `side-table`, `model`, `species`, `library`, `transport-rule`, `conditions`.
+    pub source: String,
+    pub label: String,
+    pub reactions: usize,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct GroupCoverageView {
+    pub label: String,
+    pub reactions: usize,
+    pub with_energy: usize,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct MissingMetaboliteView {
+    pub metabolite: String,
+    pub slug: String,
+    pub name: String,
+    pub compartment: String,
+    pub formula: Option<String>,
+    /// Internal reactions lacking ΔrG'° that need this ΔfG'°.
+    pub blocks: usize,
+    /// Of those, the ones where it is the only missing ΔfG'°.
+    pub only_gap: usize,
+    pub xrefs: BTreeMap<String, Vec<String>>,
 }
 
 /// What the loop analysis found in the closed network.
@@ -279,6 +332,16 @@ pub struct CompartmentView {
     pub potential_mv: f64,
     pub temperature_k: f64,
     pub pmg: Option<f64>,
+    /// False when nobody stated its pH or potential (defaults in use).
+    #[serde(default = "stated_by_default")]
+    pub conditions_stated: bool,
+    /// Where its conditions come from, when the settings say.
+    #[serde(default)]
+    pub conditions_source: Option<String>,
+}
+
+fn stated_by_default() -> bool {
+    true
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]

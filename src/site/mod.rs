@@ -12,7 +12,8 @@
 //! any sub-path):
 //!
 //! ```text
-//! index.html  findings.html  report.json  assets/<theme assets>
+//! index.html  findings.html  coverage.html  missing-energies.csv
+//! report.json  assets/<theme assets>
 //! reactions/index.html  reactions/<slug>.html
 //! metabolites/index.html  metabolites/<slug>.html
 //! notes/index.html  notes/<slug>.html      (when the project has notes)
@@ -20,6 +21,7 @@
 //! scenarios/<slug>.html                    (one per scenario judged as a whole)
 //! ```
 
+pub mod coverage;
 pub mod derived;
 pub mod format;
 pub mod loop_map;
@@ -60,6 +62,9 @@ pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(
         message: e.to_string(),
     })?;
     staging.write("report.json", format!("{json}\n").as_bytes())?;
+    if let Some(csv) = coverage::missing_csv(&sorted) {
+        staging.write(coverage::MISSING_CSV, csv.as_bytes())?;
+    }
     for (name, bytes) in theme.assets() {
         staging.write(&format!("assets/{name}"), bytes)?;
     }
@@ -516,6 +521,13 @@ fn pages(report: &Report) -> Vec<Page> {
             "metabolites",
             "Metabolites",
             context! {},
+        ),
+        page(
+            "coverage.html",
+            "coverage.html".into(),
+            "coverage",
+            "Data coverage",
+            context! { missing_csv => coverage::MISSING_CSV },
         ),
     ];
     let multiplier = report.project.sigma_multiplier;

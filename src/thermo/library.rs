@@ -312,7 +312,7 @@ mod tests {
     #[test]
     fn builtin_library_parses_and_every_value_has_a_source() {
         let library = Library::builtin();
-        assert_eq!(library.entries().len(), 18);
+        assert_eq!(library.entries().len(), 20);
         for e in library.entries() {
             assert!(!e.species.is_empty());
             for s in &e.species {
@@ -370,7 +370,7 @@ mod tests {
                 checked += 1;
             }
         }
-        assert_eq!(checked, 10 * 5 - 1);
+        assert_eq!(checked, 12 * 5 - 1);
     }
 
     #[test]

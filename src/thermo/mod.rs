@@ -12,4 +12,5 @@ pub mod legendre;
 pub mod library;
 pub mod metabolite;
 pub mod transport;
+pub mod transport_only;
 pub mod uncertainty;
