@@ -17,7 +17,7 @@ fn analyse(conditions: bool) -> Option<Report> {
         serde_json::to_string(&model).unwrap()
     );
     if conditions {
-        let file = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/recon3d-conditions.yaml");
+        let file = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/conditions/recon3d.yaml");
         settings.push_str(&std::fs::read_to_string(file).unwrap());
     }
     std::fs::write(dir.path().join("gibbsite.yaml"), settings).unwrap();
