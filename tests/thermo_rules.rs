@@ -1,7 +1,11 @@
 //! Rules of the thermodynamics engine a reviewer checks by hand: correlated
 //! uncertainty per compound, formation energies copied between
 //! compartments, validity ranges, and what the messages say. Each case is a
-//! small model whose answer is worked out beside it.
+//! small model whose answer is worked out beside it. Energies in these
+//! models are invented unless a source is named (only the rules are under
+//! test); glucose's −426.71 kJ/mol is its ΔfG'° at pH 7, I = 0.25 M from
+//! Alberty 2003's species value (p. 333) through the transform, as the
+//! reference README computes it.
 
 use gibbsite::report::Report;
 use gibbsite::Project;
@@ -67,7 +71,8 @@ reactions:
     assert_eq!(reaction_sigma(&report, "LACt"), 0.0);
 }
 
-/// a → b → c → a, with ΔfG'° of a, b, c from separate sources (σ 0.5 each)
+/// a → b → c → a (c has the id `x`; invented numbers), with ΔfG'° of a, b, c from separate
+/// sources (σ 0.5 each)
 /// and c → a given as a reaction energy (σ 0.5). Around the loop a and c
 /// each appear in two steps with opposite signs:
 ///
@@ -369,8 +374,9 @@ reactions:
     );
 }
 
-/// Atoms balanced, a charge wrong: inside one compartment ΔrG'° from
-/// transformed formation energies does not use charges.
+/// Atoms balanced, a charge wrong (invented compounds): inside one
+/// compartment ΔrG'° from transformed formation energies does not use
+/// charges (follows from Σ ν·ΔfG'°; common practice).
 #[test]
 fn a_wrong_charge_is_reported_for_what_it_affects() {
     let report = analyse(
@@ -447,7 +453,7 @@ fn loop_message_shows_the_allowance_it_subtracted() {
     }
 }
 
-/// A membrane step whose metabolites have ΔfG'° but no formula or charge:
+/// A membrane step whose metabolites have ΔfG'° (invented) but no formula or charge:
 /// the reason is the missing formula, never an empty list of metabolites.
 #[test]
 fn no_energy_message_names_the_real_reason() {
@@ -471,5 +477,29 @@ reactions:
         f.message.contains("has no formula and charge"),
         "{}",
         f.message
+    );
+}
+
+/// `at:` survives writing the model back to YAML (as `import` does) and
+/// loading it again.
+#[test]
+fn stated_conditions_round_trip_through_yaml() {
+    let (_dir, project) = load(&glucose_two_ph(
+        ", at: {ph: 7, ionic_strength: 0.1 M}",
+        ", at: {temperature: 25 °C}",
+    ));
+    let out = tempfile::tempdir().unwrap();
+    gibbsite::project::write::write_project(&project.model, out.path()).unwrap();
+    let back = gibbsite::project::load_model_files(&[out.path().join("model.yaml")], &[]).unwrap();
+    assert_eq!(back.metabolites, project.model.metabolites);
+    let at = project.model.metabolites[0]
+        .dfg_prime
+        .as_ref()
+        .unwrap()
+        .at
+        .unwrap();
+    assert_eq!(
+        (at.ph, at.ionic_strength_m, at.temperature_k),
+        (Some(7.0), Some(0.1), None)
     );
 }
