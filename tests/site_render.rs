@@ -379,6 +379,7 @@ fn fixture() -> Report {
         transport: None,
         loop_capable: Some("forward".into()),
         loops: vec!["loop-10".into()],
+        xrefs: Default::default(),
     };
     let hostile = ReactionView {
         id: HOSTILE_REACTION.into(),
@@ -411,6 +412,7 @@ fn fixture() -> Report {
         transport: None,
         loop_capable: Some("backward".into()),
         loops: vec!["loop-10".into()],
+        xrefs: Default::default(),
     };
     let unknown = ReactionView {
         id: "UNK".into(),
@@ -440,6 +442,7 @@ fn fixture() -> Report {
         transport: None,
         loop_capable: Some("forward".into()),
         loops: vec!["loop-2".into()],
+        xrefs: Default::default(),
     };
     // Symport of the acid with a proton into the cytosol. Terms in the
     // report's order (products first); the page lists the consumed first.
@@ -486,6 +489,7 @@ fn fixture() -> Report {
         }),
         loop_capable: Some("both".into()),
         loops: vec!["loop-2".into(), "loop-10".into()],
+        xrefs: Default::default(),
     };
     let mut acid_p = metabolite("ha_p", "weak acid", &["HAT"], &[]);
     acid_p.compartment = "p".into();

@@ -33,6 +33,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "note.html",
     "loops.html",
     "loop.html",
+    "collection.html",
     "style.css",
     "table.js",
 ];
