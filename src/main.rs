@@ -236,7 +236,7 @@ fn run_collection(action: CollectionAction) -> Result<ExitCode, Error> {
                 fail_on: level(fail_on),
                 title,
             };
-            collection::build(&input, &output, &options, &|line| eprintln!("{line}"))?
+            collection::build(&input, &output, &options, &|_, line| eprintln!("{line}"))?
         }
         CollectionAction::Merge {
             slices,

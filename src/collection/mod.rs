@@ -278,12 +278,13 @@ pub struct Finished {
 
 /// Builds the reports of the collection at `input` (a slice of it with
 /// `--shard`) into `out`, then the overview when the whole collection was
-/// built. `progress` receives one line per finished model.
+/// built. `progress` receives each finished model with a line saying how
+/// it went.
 pub fn build(
     input: &Path,
     out: &Path,
     options: &BuildOptions,
-    progress: &(dyn Fn(&str) + Sync),
+    progress: &(dyn Fn(&run::ModelOutcome, &str) + Sync),
 ) -> Result<Finished> {
     let entries = discover(input)?;
     let root = if input.is_dir() {
@@ -301,7 +302,7 @@ pub fn build(
     let total = slice.len();
     let outcomes = run::build_models(&slice, &root, out, options.limits, &|o| {
         let k = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
-        progress(&progress_line(k, total, o));
+        progress(o, &progress_line(k, total, o));
     });
     let file = shard::ShardFile {
         format: shard::SHARD_FORMAT.into(),
