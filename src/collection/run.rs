@@ -13,10 +13,13 @@ use std::sync::{Condvar, Mutex};
 use std::time::Instant;
 
 /// Peak resident memory of one build ≈ FIXED + PER_BYTE × model text size,
-/// from peak RSS of single `gibbsite build` runs (2026-12-02): e_coli_core
-/// (0.7 MB of XML) 12.5 MB, iZ_1308 (10.6 MB of XML) 86 MB; rounded up.
+/// from peak RSS of single builds (`benches/collection.rs`, 2026-12-02):
+/// e_coli_core (0.7 MB of XML) 12 MB, the strain models (≈ 10.6 MB) 89–108
+/// MB, iLB1027_lipid (12.4 MB) 485 MB. The bound covers the worst of these
+/// (its loop analysis keeps more in memory per byte), so it overestimates
+/// most models: the budget errs on the side of not swapping.
 const FIXED_BYTES: u64 = 16 << 20;
-const PER_BYTE: u64 = 10;
+const PER_BYTE: u64 = 40;
 
 /// How many models may run at once.
 #[derive(Debug, Clone, Copy, PartialEq)]
