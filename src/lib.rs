@@ -8,6 +8,7 @@
 pub mod analysis;
 pub mod checks;
 pub mod chem;
+pub mod collection;
 pub mod error;
 pub mod loops;
 pub mod lp;

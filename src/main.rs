@@ -53,6 +53,12 @@ enum Command {
         #[arg(long)]
         conditions: Option<PathBuf>,
     },
+    /// Build reports for a collection of models and an overview comparing
+    /// them; or merge slices built on several machines.
+    Collection {
+        #[command(subcommand)]
+        action: CollectionAction,
+    },
     /// Analyse a project and print the findings; writes nothing.
     Check {
         /// Project folder, gibbsite.yaml, model .yaml or SBML file (.xml, .xml.gz).
@@ -69,6 +75,50 @@ enum Command {
         /// What to print on standard output.
         #[arg(long, value_enum, default_value_t = Format::Text)]
         format: Format,
+    },
+}
+
+#[derive(Subcommand)]
+enum CollectionAction {
+    /// Build one report per model into <output>/<model>/ using all cores,
+    /// then the collection overview (<output>/index.html).
+    Build {
+        /// Folder of models (SBML files, model .yaml files, project folders)
+        /// or a list file (one path per line).
+        input: PathBuf,
+        /// Output folder.
+        #[arg(short, long)]
+        output: PathBuf,
+        /// Models built at once (default: the number of cores).
+        #[arg(short, long)]
+        jobs: Option<usize>,
+        /// Memory the running models may use together, e.g. 4G or 800M
+        /// (default: three quarters of the available memory).
+        #[arg(long, value_parser = gibbsite::collection::run::parse_size)]
+        memory: Option<u64>,
+        /// Build only slice i of n (by sorted path); merge the slices with
+        /// `collection merge`.
+        #[arg(long, value_name = "I/N")]
+        shard: Option<gibbsite::collection::shard::ShardSpec>,
+        #[arg(long, value_enum, default_value_t = FailOn::Error)]
+        fail_on: FailOn,
+        /// Overview title (default: from the folder or list file name).
+        #[arg(long)]
+        title: Option<String>,
+    },
+    /// Build the overview from slices made by `collection build --shard`.
+    Merge {
+        /// Output folders of the slices (one folder may hold several).
+        #[arg(required = true)]
+        slices: Vec<PathBuf>,
+        /// Output folder (may be one of the slice folders).
+        #[arg(short, long)]
+        output: PathBuf,
+        #[arg(long, value_enum, default_value_t = FailOn::Error)]
+        fail_on: FailOn,
+        /// Overview title (default: the one the slices were built with).
+        #[arg(long)]
+        title: Option<String>,
     },
 }
 
@@ -153,6 +203,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             );
             Ok(ExitCode::SUCCESS)
         }
+        Command::Collection { action } => run_collection(action),
         Command::Check {
             project,
             fail_on,
@@ -193,6 +244,50 @@ fn load(project: &Path, data: &[PathBuf]) -> Result<Project, Error> {
         eprintln!("{w}");
     }
     Ok(loaded)
+}
+
+fn run_collection(action: CollectionAction) -> Result<ExitCode, Error> {
+    use gibbsite::collection::{self, run::Limits, shard::ShardSpec, FailLevel};
+    let level = |f: FailOn| match f {
+        FailOn::Error => FailLevel::Error,
+        FailOn::Warning => FailLevel::Warning,
+        FailOn::Never => FailLevel::Never,
+    };
+    let finished = match action {
+        CollectionAction::Build {
+            input,
+            output,
+            jobs,
+            memory,
+            shard,
+            fail_on,
+            title,
+        } => {
+            let options = collection::BuildOptions {
+                limits: Limits::new(jobs, memory),
+                shard: shard.unwrap_or(ShardSpec::WHOLE),
+                fail_on: level(fail_on),
+                title,
+            };
+            collection::build(&input, &output, &options, &|_, line| eprintln!("{line}"))?
+        }
+        CollectionAction::Merge {
+            slices,
+            output,
+            fail_on,
+            title,
+        } => collection::merge(&slices, &output, level(fail_on), title)?,
+    };
+    eprintln!(
+        "{} models, {} failed; {}",
+        finished.models,
+        finished.failed,
+        match &finished.overview {
+            Some(_) => "overview written".to_string(),
+            None => "slice written (merge the slices for the overview)".to_string(),
+        }
+    );
+    Ok(ExitCode::from(finished.worst.exit_code()))
 }
 
 fn default_output(project: &Path) -> PathBuf {

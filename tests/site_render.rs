@@ -380,6 +380,7 @@ fn fixture() -> Report {
         transport: None,
         loop_capable: Some("forward".into()),
         loops: vec!["loop-10".into()],
+        xrefs: Default::default(),
     };
     let hostile = ReactionView {
         id: HOSTILE_REACTION.into(),
@@ -412,6 +413,7 @@ fn fixture() -> Report {
         transport: None,
         loop_capable: Some("backward".into()),
         loops: vec!["loop-10".into()],
+        xrefs: Default::default(),
     };
     let unknown = ReactionView {
         id: "UNK".into(),
@@ -441,6 +443,7 @@ fn fixture() -> Report {
         transport: None,
         loop_capable: Some("forward".into()),
         loops: vec!["loop-2".into()],
+        xrefs: Default::default(),
     };
     // Symport of the acid with a proton into the cytosol. Terms in the
     // report's order (products first); the page lists the consumed first.
@@ -487,6 +490,7 @@ fn fixture() -> Report {
         }),
         loop_capable: Some("both".into()),
         loops: vec!["loop-2".into(), "loop-10".into()],
+        xrefs: Default::default(),
     };
     let mut acid_p = metabolite("ha_p", "weak acid", &["HAT"], &[]);
     acid_p.compartment = "p".into();

@@ -135,7 +135,7 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
 
 /// RFC 3339 UTC time of the run; SOURCE_DATE_EPOCH (seconds) makes it fixed
 /// for reproducible builds.
-fn generated_timestamp() -> String {
+pub(crate) fn generated_timestamp() -> String {
     let secs = std::env::var("SOURCE_DATE_EPOCH")
         .ok()
         .and_then(|s| s.trim().parse::<i64>().ok())
@@ -336,6 +336,7 @@ fn reaction_views(model: &Model, analysis: &Analysis) -> Vec<ReactionView> {
                     }),
                 loop_capable: capable_of(analysis, j),
                 loops: loops_of(analysis, j),
+                xrefs: r.xrefs.clone(),
             }
         })
         .collect()

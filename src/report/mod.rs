@@ -502,6 +502,10 @@ pub struct ReactionView {
     pub loop_capable: Option<String>,
     /// Ids of the listed loops it belongs to.
     pub loops: Vec<String>,
+    /// Cross references: namespace (e.g. "kegg.reaction") → ids. Lets a
+    /// collection match one reaction across models whose ids differ.
+    #[serde(default)]
+    pub xrefs: BTreeMap<String, Vec<String>>,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]

@@ -76,7 +76,7 @@ pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(
 }
 
 /// The minijinja environment with every theme template and our filters.
-fn environment(theme: &Theme) -> Result<Environment<'static>, Error> {
+pub(crate) fn environment(theme: &Theme) -> Result<Environment<'static>, Error> {
     let mut env = Environment::new();
     // Every template produces HTML, whatever its name: escape always.
     env.set_auto_escape_callback(|_| AutoEscape::Html);
@@ -118,7 +118,7 @@ fn render_page(env: &Environment<'_>, theme: &Theme, page: &Page) -> Result<Stri
 
 /// A template error naming the file it came from (user theme or default),
 /// with minijinja's location and the cause chain.
-fn template_error(theme: &Theme, page_template: &str, err: &minijinja::Error) -> Error {
+pub(crate) fn template_error(theme: &Theme, page_template: &str, err: &minijinja::Error) -> Error {
     let mut message = err.to_string();
     let mut source = std::error::Error::source(err);
     while let Some(cause) = source {

@@ -34,6 +34,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "note.html",
     "loops.html",
     "loop.html",
+    "collection.html",
     "scenario.html",
     "style.css",
     "table.js",
