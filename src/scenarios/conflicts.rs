@@ -64,8 +64,14 @@ pub fn find(
     let mut blocked: BTreeSet<usize> = BTreeSet::new();
     let mut seed: Vec<usize> = first.weights.iter().map(|&(s, _)| s).collect();
     loop {
-        let members = deletion_filter(problem, &seed, all)?;
-        let set = describe(problem, &members)?;
+        // A solver failure while looking for a further set ends the search
+        // (saying more sets may exist) instead of losing the sets found.
+        let found = deletion_filter(problem, &seed, all).and_then(|m| describe(problem, &m));
+        let set = match found {
+            Ok(set) => set,
+            Err(e) if sets.is_empty() => return Err(e),
+            Err(_) => return Ok((sets, true)),
+        };
         // Block the member carrying the largest weight.
         let heaviest = set
             .steps
@@ -81,8 +87,9 @@ pub fn find(
             .copied()
             .filter(|s| !blocked.contains(s))
             .collect();
-        match problem.decide(&rest)? {
-            Some(decision) if !decision.is_feasible() => {
+        match problem.decide(&rest) {
+            Err(_) => return Ok((sets, true)),
+            Ok(Some(decision)) if !decision.is_feasible() => {
                 if sets.len() > extra {
                     return Ok((sets, true));
                 }
