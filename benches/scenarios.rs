@@ -12,8 +12,9 @@
 //!    RT·Σᵢνᵢⱼ·ln(1 mM) − u with u uniform in [0, 2) kJ/mol (fixed seed), σ =
 //!    1.5 kJ/mol; so every active step has ΔG' ≤ −3 kJ/mol at 1 mM and the
 //!    scenario is feasible ("feasible" variant);
-//! 3. the "infeasible" variant adds +25 kJ/mol to five active reactions
-//!    (every 40th), making the scenario infeasible;
+//! 3. the "infeasible" variant makes five active reactions (every 40th)
+//!    60 kJ/mol uphill at 1 mM in their flux direction, so the scenario is
+//!    infeasible and the conflict search (first set + further sets) runs;
 //! 4. each variant is loaded as a project (SBML + side table, loop analysis
 //!    off, the flux added as a scenario) and the scenario judged; the loop law is also timed on the
 //!    raw flux-balance flux.
@@ -100,9 +101,14 @@ fn measure(path: &Path) -> Result<(), String> {
     for variant in ["feasible", "infeasible"] {
         let mut table = energies.clone();
         if variant == "infeasible" {
-            for (k, (_, drg)) in table.iter_mut().enumerate() {
+            for (k, (j, drg)) in table.iter_mut().enumerate() {
                 if k % 40 == 20 && k / 40 < 5 {
-                    *drg += 25.0;
+                    // 60 kJ/mol uphill at 1 mM in its flux direction.
+                    let d = flux
+                        .iter()
+                        .find(|f| f.0 == *j)
+                        .map_or(1.0, |f| f.1.signum());
+                    *drg = d * 60.0 - q_at_1mm(&model, *j);
                 }
             }
         }
@@ -222,24 +228,30 @@ fn synthetic_energies(
     active: &[(usize, f64)],
     mu: &BTreeMap<usize, f64>,
 ) -> Vec<(usize, f64)> {
-    let rt = gibbsite::thermo::constants::rt(298.15);
     let mut rng = fastrand::Rng::with_seed(20_261_202);
     active
         .iter()
         .map(|&(j, v)| {
             let r = &model.reactions[j];
             let potential: f64 = r.stoichiometry.iter().map(|&(i, nu)| nu * mu[&i]).sum();
-            let q_at_1mm: f64 = r
-                .stoichiometry
-                .iter()
-                .filter(|&&(i, _)| model.metabolites[i].special == Special::None)
-                .map(|&(_, nu)| nu * rt * 1e-3f64.ln())
-                .sum();
+            let q_at_1mm = q_at_1mm(model, j);
             let jitter = 2.0 * rng.f64();
             // In the flux direction: ΔG' at 1 mM = 3·d·Σνμ − jitter·d… ≤ −3.
             (j, 3.0 * potential - q_at_1mm - v.signum() * jitter)
         })
         .collect()
+}
+
+/// RT·Σ ν·ln(1 mM) over the participants in Q: the RT ln Q of reaction j
+/// with every concentration at 1 mM.
+fn q_at_1mm(model: &Model, j: usize) -> f64 {
+    let rt = gibbsite::thermo::constants::rt(298.15);
+    model.reactions[j]
+        .stoichiometry
+        .iter()
+        .filter(|&&(i, _)| model.metabolites[i].special == Special::None)
+        .map(|&(_, nu)| nu * rt * 1e-3f64.ln())
+        .sum()
 }
 
 fn write_project(

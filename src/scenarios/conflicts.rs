@@ -9,7 +9,7 @@
 //! weight) is blocked and the whole scenario searched again.
 
 use super::feasibility::{Binding, DualPoint, JointProblem, JointVarKind, Undecided};
-use super::tolerance::SUBSTITUTION_KJ;
+use super::tolerance::{DECIDE_KJ, SUBSTITUTION_KJ};
 use crate::lp::{LinearProgram, Relation, Sense, Var};
 use std::collections::{BTreeMap, BTreeSet};
 
@@ -87,15 +87,21 @@ pub fn find(
             .copied()
             .filter(|s| !blocked.contains(s))
             .collect();
-        match problem.decide(&rest) {
+        if rest.is_empty() {
+            break;
+        }
+        // Only the dual is needed here: a certificate that holds when
+        // evaluated proves the rest infeasible on its own (Farkas), and the
+        // deletion filter re-checks every subset with both LPs.
+        match problem.solve_dual(&rest) {
             Err(_) => return Ok((sets, true)),
-            Ok(Some(decision)) if !decision.is_feasible() => {
+            Ok(dual) if problem.certificate_margin(&dual) > DECIDE_KJ => {
                 if sets.len() > extra {
                     return Ok((sets, true));
                 }
-                seed = decision.dual().weights.iter().map(|&(s, _)| s).collect();
+                seed = dual.weights.iter().map(|&(s, _)| s).collect();
             }
-            _ => break,
+            Ok(_) => break,
         }
     }
     Ok((sets, false))
