@@ -155,8 +155,12 @@ impl<'a> Analysis<'a> {
                 t.sigma_kj = analysis.errors.reaction_sigma(j);
             }
         }
-        analysis.scenarios =
-            crate::scenarios::analyse(&analysis, &crate::scenarios::ScenarioOptions::default());
+        analysis.scenarios = crate::scenarios::analyse(
+            &analysis,
+            &crate::scenarios::ScenarioOptions {
+                extra_conflict_sets: settings.extra_conflict_sets,
+            },
+        );
         if settings.loops {
             analysis.loops = Some(analysis.run_loops());
         }

@@ -220,7 +220,11 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 .first()
                 .map(|p| p.to_string_lossy().into_owned());
             match format {
-                Format::Text => print!("{}", gibbsite::report::text::findings_text(&report)),
+                Format::Text => print!(
+                    "{}{}",
+                    gibbsite::report::text::findings_text(&report),
+                    gibbsite::report::text::scenario_verdicts_text(&report)
+                ),
                 Format::Json => print!("{}", gibbsite::report::json::to_json(&report)),
                 Format::Sarif => print!(
                     "{}",

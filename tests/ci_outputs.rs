@@ -46,9 +46,9 @@ fn markdown_summary_has_counts_table_and_caution() {
     let mut report = Project::load(&demo()).unwrap().analyse();
     report.findings[0].message = "a | b <script>".into();
     let md = summary::to_markdown(&report, 2);
-    assert!(md.contains("**3 errors, 2 warnings, 4 notes**"), "{md}");
+    assert!(md.contains("**5 errors, 5 warnings, 4 notes**"), "{md}");
     assert!(md.contains("a \\| b &lt;script&gt;"), "{md}");
-    assert!(md.contains("… and 3 more in the report."), "{md}");
+    assert!(md.contains("… and 8 more in the report."), "{md}");
     assert!(md.contains("expert review"));
 }
 
@@ -83,4 +83,39 @@ fn baseline_makes_only_new_findings_fail() {
     // A broken baseline is bad input.
     std::fs::write(&baseline, "{ not json").unwrap();
     assert_eq!(gibbsite(&["check", "--baseline", b], &demo()), 2);
+}
+
+/// The joint verdict of every scenario reaches SARIF (run properties) and the
+/// terminal listing, feasible ones included.
+#[test]
+fn sarif_and_text_carry_the_joint_scenario_verdicts() {
+    let report = Project::load(&demo()).unwrap().analyse();
+    let v: serde_json::Value =
+        serde_json::from_str(&sarif::to_sarif(&report, None)).expect("SARIF is JSON");
+    let verdicts = v["runs"][0]["properties"]["scenarioVerdicts"]
+        .as_array()
+        .unwrap();
+    let pairs: Vec<(&str, &str)> = verdicts
+        .iter()
+        .map(|s| {
+            (
+                s["scenario"].as_str().unwrap(),
+                s["verdict"].as_str().unwrap(),
+            )
+        })
+        .collect();
+    assert_eq!(
+        pairs,
+        [
+            ("irreversible-directions", "infeasible"),
+            ("noon", "feasible"),
+            ("bloom", "infeasible"),
+            ("refit", "infeasible"),
+            ("dusk", "infeasible"),
+        ]
+    );
+    let text = gibbsite::report::text::scenario_verdicts_text(&report);
+    assert!(text.contains("scenario noon as a whole: feasible (max-min driving force "));
+    assert!(text.contains("scenario refit as a whole: infeasible"));
+    assert!(text.contains("the flux carries 1 internal cycle(s)"));
 }

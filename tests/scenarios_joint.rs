@@ -416,3 +416,71 @@ scenarios:
     assert!(result.loop_free && result.cycles.is_empty());
     let _ = ScenarioOptions::default();
 }
+
+/// Two independent conflicts in one scenario: the chain above and a second
+/// chain p → q → r with the same numbers. The default search finds both
+/// (blocking the heaviest member of the first leaves the second); with
+/// `conflict_sets: 0` only the first is listed and the search says it
+/// stopped at its limit.
+#[test]
+fn further_conflicting_sets_and_their_limit() {
+    let model = CHAIN.replace(
+        "  - {id: EX_a, equation: a <->, role: exchange}",
+        "  - {id: PQ, equation: p -> q, reaction_energy: {value: 10 kJ/mol, sigma: 0}}
+  - {id: QR, equation: q -> r, reaction_energy: {value: 10 kJ/mol, sigma: 0}}
+  - {id: RS, equation: r -> s, reaction_energy: {value: 10 kJ/mol, sigma: 0}}
+  - {id: EX_a, equation: a <->, role: exchange}",
+    );
+    let model = model.replace(
+        "  - {id: e, compartment: c}",
+        "  - {id: e, compartment: c}
+  - {id: p, compartment: c}
+  - {id: q, compartment: c}
+  - {id: r, compartment: c}
+  - {id: s, compartment: c}",
+    );
+    let model = model.replace("DE: 1, EX_e: 1}", "DE: 1, EX_e: 1, PQ: 1, QR: 1, RS: 1}");
+    for (settings, expect_sets, expect_more) in [
+        (CHAIN_SETTINGS.to_string(), 2, false),
+        (format!("{CHAIN_SETTINGS}conflict_sets: 0\n"), 1, true),
+    ] {
+        let (_dir, project) = project(&model, &settings);
+        let analysis = Analysis::new(&project.model, &project.settings);
+        let run = scenario(&analysis, "run");
+        let Ok(JointOutcome::Infeasible {
+            conflicts,
+            more_sets_possible,
+            mdf,
+        }) = &run.outcome
+        else {
+            panic!("{:?}", run.outcome);
+        };
+        let all: Vec<usize> = (0..run.problem.steps.len()).collect();
+        assert!(substituted(&run.problem, &all, &mdf.values, mdf.value_kj) < 1e-6);
+        assert_eq!(conflicts.len(), expect_sets, "{settings}");
+        assert_eq!(*more_sets_possible, expect_more);
+        let mut sets: Vec<Vec<String>> = conflicts
+            .iter()
+            .map(|c| {
+                c.steps
+                    .iter()
+                    .map(|&s| reaction_id(&analysis, &run.problem, s))
+                    .collect()
+            })
+            .collect();
+        sets.sort();
+        let chains: Vec<Vec<String>> = [["AB", "BD", "DE"], ["PQ", "QR", "RS"]]
+            .iter()
+            .map(|s| s.iter().map(|x| x.to_string()).collect())
+            .collect();
+        for set in &sets {
+            assert!(chains.contains(set), "{set:?}");
+        }
+        if expect_sets == 2 {
+            assert_eq!(sets, chains);
+        }
+        for c in conflicts {
+            assert!((c.overall_kj - (30.0 - RT * 1e4f64.ln())).abs() < 1e-6);
+        }
+    }
+}

@@ -1661,8 +1661,18 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
             ["✖ error", "infeasible-direction", "PEPS", "—"],
             ["✖ error", "scenario-contradiction", "LDH", "dusk"],
             ["✖ error", "scenario-contradiction", "PEPS", "dusk"],
+            ["✖ error", "scenario-contradiction", "PEPS", "refit"],
+            [
+                "✖ error",
+                "scenario-infeasible",
+                "PLC1, PLC2, PLC3",
+                "bloom"
+            ],
             ["▲ warning", "internal-loop", "loop-1, PYK, PEPS", "—"],
+            ["▲ warning", "scenario-internal-cycle", "PYK, PEPS", "refit"],
+            ["▲ warning", "scenario-marginal", "GAPD", "bloom"],
             ["▲ warning", "scenario-marginal", "GAPD", "noon"],
+            ["▲ warning", "scenario-marginal", "GAPD", "refit"],
         ]
     );
     // The basis of verdicts: confidence 0.95 gives the two-sided normal

@@ -47,6 +47,9 @@ pub struct Settings {
     pub min_driving_force_kj: f64,
     /// Run the loop analysis (internal loops, energy-generating cycles).
     pub loops: bool,
+    /// Further independent conflicting sets searched after the first in an
+    /// infeasible scenario.
+    pub extra_conflict_sets: usize,
     /// Currency key → metabolite ids, overriding automatic recognition.
     pub currencies: std::collections::BTreeMap<String, Vec<String>>,
     /// Compartments (indices, ascending) whose pH and potential nobody
@@ -124,6 +127,7 @@ impl Project {
                 default_concentration: DEFAULT_CONCENTRATION,
                 min_driving_force_kj: DEFAULT_MIN_DRIVING_FORCE_KJ,
                 loops: true,
+                extra_conflict_sets: crate::scenarios::DEFAULT_EXTRA_CONFLICT_SETS,
                 currencies: Default::default(),
                 unset_conditions,
                 condition_sources: Default::default(),
@@ -332,6 +336,9 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
             default_concentration,
             min_driving_force_kj,
             loops: raw.loops.unwrap_or(true),
+            extra_conflict_sets: raw
+                .conflict_sets
+                .unwrap_or(crate::scenarios::DEFAULT_EXTRA_CONFLICT_SETS),
             currencies: raw
                 .currencies
                 .iter()

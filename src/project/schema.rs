@@ -151,6 +151,9 @@ pub struct RawSettings {
     pub tables: Option<OneOrMany>,
     /// Look for internal loops and energy-generating cycles (default true).
     pub loops: Option<bool>,
+    /// Further independent conflicting sets searched after the first in an
+    /// infeasible scenario (default 5).
+    pub conflict_sets: Option<usize>,
     /// Currency key (`atp`, `adp`, `pi`, `h`, `h2o`, `nadh`, …) → metabolite
     /// ids, replacing automatic recognition for energy-generating cycles.
     #[serde(default)]

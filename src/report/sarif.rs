@@ -66,6 +66,14 @@ pub fn to_sarif(report: &Report, model_file: Option<&str>) -> String {
                 "rules": rules,
             }},
             "results": results,
+            // The joint verdict of every scenario, found or not.
+            "properties": {"scenarioVerdicts": report.joint_scenarios.iter().map(|s| json!({
+                "scenario": s.id,
+                "verdict": s.verdict,
+                "maxMinDrivingForceKj": s.mdf.as_ref().map(|m| m.value_kj),
+                "conflictingSets": s.conflicts.len(),
+                "internalCycles": s.loop_law.as_ref().map(|l| l.cycles.len()),
+            })).collect::<Vec<_>>()},
         }],
     });
     let mut text = serde_json::to_string_pretty(&sarif).expect("SARIF values are plain JSON");

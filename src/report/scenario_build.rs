@@ -179,10 +179,14 @@ fn conflict_view(
             }
         })
         .collect();
+    // A reaction's own ΔrG'° is both an error source and an allowance row:
+    // list it once.
+    let mut seen = BTreeSet::new();
     let binding = c
         .binding
         .iter()
         .map(|b| binding_view(model, analysis, slugs, problem, b))
+        .filter(|b| seen.insert((b.subject.clone(), b.side.clone())))
         .collect();
     let repairs = c
         .repairs

@@ -9,7 +9,7 @@
 //! weight) is blocked and the whole scenario searched again.
 
 use super::feasibility::{Binding, DualPoint, JointProblem, JointVarKind, Undecided};
-use super::tolerance::SUBSTITUTION_KJ;
+use super::tolerance::{DECIDE_KJ, SUBSTITUTION_KJ};
 use crate::lp::{LinearProgram, Relation, Sense, Var};
 use std::collections::{BTreeMap, BTreeSet};
 
@@ -64,8 +64,14 @@ pub fn find(
     let mut blocked: BTreeSet<usize> = BTreeSet::new();
     let mut seed: Vec<usize> = first.weights.iter().map(|&(s, _)| s).collect();
     loop {
-        let members = deletion_filter(problem, &seed, all)?;
-        let set = describe(problem, &members)?;
+        // A solver failure while looking for a further set ends the search
+        // (saying more sets may exist) instead of losing the sets found.
+        let found = deletion_filter(problem, &seed, all).and_then(|m| describe(problem, &m));
+        let set = match found {
+            Ok(set) => set,
+            Err(e) if sets.is_empty() => return Err(e),
+            Err(_) => return Ok((sets, true)),
+        };
         // Block the member carrying the largest weight.
         let heaviest = set
             .steps
@@ -81,14 +87,21 @@ pub fn find(
             .copied()
             .filter(|s| !blocked.contains(s))
             .collect();
-        match problem.decide(&rest)? {
-            Some(decision) if !decision.is_feasible() => {
+        if rest.is_empty() {
+            break;
+        }
+        // Only the dual is needed here: a certificate that holds when
+        // evaluated proves the rest infeasible on its own (Farkas), and the
+        // deletion filter re-checks every subset with both LPs.
+        match problem.solve_dual(&rest) {
+            Err(_) => return Ok((sets, true)),
+            Ok(dual) if problem.certificate_margin(&dual) > DECIDE_KJ => {
                 if sets.len() > extra {
                     return Ok((sets, true));
                 }
-                seed = decision.dual().weights.iter().map(|&(s, _)| s).collect();
+                seed = dual.weights.iter().map(|&(s, _)| s).collect();
             }
-            _ => break,
+            Ok(_) => break,
         }
     }
     Ok((sets, false))

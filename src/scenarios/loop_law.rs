@@ -129,8 +129,18 @@ fn metabolite_rows(model: &Model, reactions: &[usize]) -> BTreeMap<usize, Vec<(u
 
 /// Do potentials exist with dⱼ·Σ νᵢⱼμᵢ ≤ −1 for every active (j, flux)?
 pub fn obeys_loop_law(model: &Model, active: &[(usize, f64)]) -> Result<bool, Undecided> {
+    Ok(loop_law_potentials(model, active)?.is_some())
+}
+
+/// Potentials μ (metabolite → value) with dⱼ·Σ νᵢⱼμᵢ ≤ −1 for every active
+/// (j, flux), checked by substitution; `None` when the flux carries a cycle
+/// (then a cycle is found by the alternative LP, so the two agree).
+pub fn loop_law_potentials(
+    model: &Model,
+    active: &[(usize, f64)],
+) -> Result<Option<BTreeMap<usize, f64>>, Undecided> {
     if active.is_empty() {
-        return Ok(true);
+        return Ok(Some(BTreeMap::new()));
     }
     let mut lp = LinearProgram::new(Sense::Minimise);
     let mut mu: BTreeMap<usize, Var> = BTreeMap::new();
@@ -164,9 +174,9 @@ pub fn obeys_loop_law(model: &Model, active: &[(usize, f64)]) -> Result<bool, Un
                     "loop-law potentials violate their constraints by {violation:.2e}"
                 )));
             }
-            Ok(true)
+            Ok(Some(mu.iter().map(|(&i, &v)| (i, s.value(v))).collect()))
         }
-        (None, Some(_)) => Ok(false),
+        (None, Some(_)) => Ok(None),
         _ => Err(Undecided(
             "the loop-law LP and its alternative (a cycle) gave the same answer".into(),
         )),
