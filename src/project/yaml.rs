@@ -22,6 +22,18 @@ pub fn parse<T: DeserializeOwned>(
     kind: FileKind,
     diagnostics: &mut Vec<Diagnostic>,
 ) -> Option<Parsed<T>> {
+    // Checked before any parser sees the text: deep nesting makes YAML
+    // parsers slow (quadratic) and recursive, and our formats need a few levels.
+    if let Some((line, column)) = too_deep(text) {
+        diagnostics.push(
+            Diagnostic::new(
+                file,
+                format!("nesting deeper than {MAX_DEPTH} levels; gibbsite files need only a few"),
+            )
+            .at(line, column),
+        );
+        return None;
+    }
     let map = SourceMap::build(text);
     let mut unknown: Vec<Vec<Segment>> = Vec::new();
     let deserializer = serde_yaml::Deserializer::from_str(text);
@@ -40,6 +52,104 @@ pub fn parse<T: DeserializeOwned>(
             None
         }
     }
+}
+
+/// Deepest nesting of mappings and sequences a gibbsite YAML file may have
+/// (the formats need at most about six).
+pub const MAX_DEPTH: usize = 64;
+
+/// Where nesting first exceeds [`MAX_DEPTH`], by a linear scan that
+/// over-estimates rather than misses: block levels from indentation and
+/// `- ` markers, flow levels from brackets outside quotes and comments.
+pub fn too_deep(text: &str) -> Option<(usize, usize)> {
+    let mut indents: Vec<usize> = Vec::new();
+    let mut flow = 0usize;
+    // Indentation of the line that opened a block scalar (`|`, `>`).
+    let mut block_scalar: Option<usize> = None;
+    for (n, line) in text.lines().enumerate() {
+        let indent = line.len() - line.trim_start_matches([' ', '\t']).len();
+        let rest = &line[indent..];
+        if let Some(opened) = block_scalar {
+            if rest.is_empty() || indent > opened {
+                continue;
+            }
+            block_scalar = None;
+        }
+        let mut depth;
+        let mut column = indent;
+        let mut s = rest;
+        if flow == 0 {
+            if rest.is_empty() || rest.starts_with('#') {
+                continue;
+            }
+            while indents.last().is_some_and(|&i| i > indent) {
+                indents.pop();
+            }
+            if indents.last() != Some(&indent) {
+                indents.push(indent);
+            }
+            depth = indents.len();
+            // `- - - x`: each marker opens a sequence on this line.
+            while s == "-" || s.starts_with("- ") || s.starts_with("-\t") {
+                depth += 1;
+                let next = s[1..].trim_start_matches([' ', '\t']);
+                column += s.len() - next.len();
+                s = next;
+            }
+        } else {
+            depth = indents.len();
+        }
+        if depth + flow > MAX_DEPTH {
+            return Some((n + 1, column + 1));
+        }
+        // Scan the rest of the line for flow brackets.
+        let bytes = s.as_bytes();
+        let mut i = 0;
+        let mut value_start = flow == 0;
+        while i < bytes.len() {
+            let c = bytes[i];
+            match c {
+                b'"' | b'\'' if flow > 0 || value_start => {
+                    // Skip the quoted string (to the end of the line at most).
+                    i += 1;
+                    while i < bytes.len() {
+                        if c == b'"' && bytes[i] == b'\\' {
+                            i += 2;
+                            continue;
+                        }
+                        if bytes[i] == c {
+                            break;
+                        }
+                        i += 1;
+                    }
+                    value_start = false;
+                }
+                b'#' if i == 0 || bytes[i - 1] == b' ' || bytes[i - 1] == b'\t' => break,
+                b'[' | b'{' if flow > 0 || value_start => {
+                    flow += 1;
+                    if depth + flow > MAX_DEPTH {
+                        return Some((n + 1, column + i + 1));
+                    }
+                }
+                b']' | b'}' if flow > 0 => flow -= 1,
+                b' ' | b'\t' => {}
+                b':' if flow == 0 && bytes.get(i + 1).is_none_or(|b| *b == b' ' || *b == b'\t') => {
+                    value_start = true;
+                }
+                b'|' | b'>' if flow == 0 && value_start => {
+                    block_scalar = Some(indent);
+                    break;
+                }
+                _ => {
+                    if flow == 0 {
+                        value_start = false;
+                    }
+                }
+            }
+            i += 1;
+        }
+    }
+    None
 }
 
 fn unknown_key(file: &Path, kind: FileKind, path: &[Segment], map: &SourceMap) -> Diagnostic {
@@ -98,5 +208,56 @@ fn segments(path: &serde_ignored::Path<'_>) -> Vec<Segment> {
         P::Some { parent } | P::NewtypeStruct { parent } | P::NewtypeVariant { parent } => {
             segments(parent)
         }
+    }
+}
+
+#[cfg(test)]
+mod depth_tests {
+    use super::*;
+
+    #[test]
+    fn ordinary_files_are_not_too_deep() {
+        let demo = include_str!("../../projects/lakeside/model.yaml");
+        assert_eq!(too_deep(demo), None);
+        let settings = include_str!("../../projects/lakeside/gibbsite.yaml");
+        assert_eq!(too_deep(settings), None);
+        // Brackets in plain values and block scalars are not nesting.
+        let text = format!(
+            "reactions:\n  - id: R1\n    equation: 2 a[c] -> b[c]\n    notes: |\n      {}\n    name: x [\n",
+            "[".repeat(200)
+        );
+        assert_eq!(too_deep(&text), None);
+    }
+
+    #[test]
+    fn deep_flow_block_and_sequence_nesting_is_caught() {
+        let flow = format!("a: {}{}", "{b: ".repeat(100), "}".repeat(100));
+        assert_eq!(too_deep(&flow), Some((1, 256)));
+        let mut block = String::new();
+        for d in 0..100 {
+            block.push_str(&" ".repeat(d));
+            block.push_str("k:\n");
+        }
+        assert_eq!(too_deep(&block), Some((65, 65)));
+        let dashes = format!("{}x\n", "- ".repeat(100));
+        assert_eq!(too_deep(&dashes).map(|(l, _)| l), Some(1));
+        let multi_line = format!("a: {}\n{}", "[\n".repeat(100), "]\n".repeat(100));
+        assert_eq!(too_deep(&multi_line).map(|(l, _)| l), Some(64));
+    }
+
+    #[test]
+    fn too_deep_text_is_an_error_at_its_place() {
+        let flow = format!("id: x\nreactions: {}{}\n", "[".repeat(5000), "]".repeat(5000));
+        let mut diagnostics = Vec::new();
+        let parsed = parse::<serde_yaml::Value>(
+            Path::new("m.yaml"),
+            &flow,
+            FileKind::Model,
+            &mut diagnostics,
+        );
+        assert!(parsed.is_none());
+        assert_eq!(diagnostics.len(), 1);
+        assert_eq!(diagnostics[0].line, Some(2));
+        assert!(diagnostics[0].message.contains("nesting deeper than 64"));
     }
 }
