@@ -66,7 +66,9 @@ impl fmt::Display for Diagnostic {
     }
 }
 
-/// Everything that can stop a run. All of these map to exit code 2.
+/// Everything that can stop a run. Writing the output failing
+/// ([`Error::Output`]: disk full, permission) maps to exit code 3, so CI can
+/// tell "fix your runner" from "fix your model"; everything else to 2.
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
     /// One or more problems in the user's input files.
@@ -75,6 +77,15 @@ pub enum Error {
     /// Reading or writing a file failed.
     #[error("{}: {source}", path.display())]
     Io {
+        path: PathBuf,
+        #[source]
+        source: std::io::Error,
+    },
+    /// Writing the site or an imported project failed (disk full,
+    /// permission, read-only file system): the runner's problem, not the
+    /// model's.
+    #[error("{}: cannot write: {source}", path.display())]
+    Output {
         path: PathBuf,
         #[source]
         source: std::io::Error,
@@ -103,6 +114,22 @@ impl Error {
         Error::Io {
             path: path.to_path_buf(),
             source,
+        }
+    }
+
+    pub fn output(path: &Path, source: std::io::Error) -> Error {
+        Error::Output {
+            path: path.to_path_buf(),
+            source,
+        }
+    }
+
+    /// The process exit code for this error: 3 for output failures, 2 for
+    /// bad input or usage.
+    pub fn exit_code(&self) -> u8 {
+        match self {
+            Error::Output { .. } => 3,
+            _ => 2,
         }
     }
 

@@ -2,7 +2,8 @@
 //! through the library, map the outcome to an exit code.
 //!
 //! Exit codes: 0 = no finding at or above the `--fail-on` level,
-//! 1 = at least one such finding, 2 = bad input or usage.
+//! 1 = at least one such finding, 2 = bad input or usage, 3 = writing the
+//! output failed (disk full, permission).
 
 use clap::{Parser, Subcommand, ValueEnum};
 use gibbsite::report::{baseline, Report, Severity};
@@ -19,6 +20,31 @@ use std::process::ExitCode;
 struct Cli {
     #[command(subcommand)]
     command: Command,
+    /// Largest input file (and decompressed SBML) read, e.g. `512M`, `2G`.
+    #[arg(long, global = true, value_name = "SIZE", default_value = "256M", value_parser = parse_size)]
+    max_input_size: u64,
+}
+
+fn parse_size(text: &str) -> Result<u64, String> {
+    gibbsite::project::read::parse_size(text)
+}
+
+/// Where a project's files may come from (build and check).
+#[derive(clap::Args)]
+struct Confine {
+    /// Also allow the project's settings to name files in this folder
+    /// (symlinks followed); by default everything must be inside the
+    /// project folder. May be repeated.
+    #[arg(long, value_name = "DIR")]
+    allow_dir: Vec<PathBuf>,
+}
+
+impl Confine {
+    fn options(&self) -> gibbsite::project::LoadOptions {
+        gibbsite::project::LoadOptions {
+            allowed_dirs: self.allow_dir.clone(),
+        }
+    }
 }
 
 #[derive(Subcommand)]
@@ -36,6 +62,12 @@ enum Command {
         /// Earlier report.json: only findings not in it decide the exit code.
         #[arg(long)]
         baseline: Option<PathBuf>,
+        /// Render with the default theme even if the project has its own
+        /// (a project theme is trusted code: use this for third-party models).
+        #[arg(long)]
+        no_project_theme: bool,
+        #[command(flatten)]
+        confine: Confine,
     },
     /// Convert an SBML model (.xml or .xml.gz) into a gibbsite project folder.
     Import {
@@ -44,6 +76,9 @@ enum Command {
         /// Project folder to write (model.yaml and gibbsite.yaml).
         #[arg(short, long)]
         output: PathBuf,
+        /// Replace model.yaml and gibbsite.yaml if the folder has them.
+        #[arg(long)]
+        force: bool,
     },
     /// Analyse a project and print the findings; writes nothing.
     Check {
@@ -57,6 +92,8 @@ enum Command {
         /// What to print on standard output.
         #[arg(long, value_enum, default_value_t = Format::Text)]
         format: Format,
+        #[command(flatten)]
+        confine: Confine,
     },
 }
 
@@ -93,11 +130,12 @@ fn main() -> ExitCode {
             };
         }
     };
+    gibbsite::project::read::set_max_input_size(cli.max_input_size);
     match run(cli.command) {
         Ok(code) => code,
         Err(e) => {
             eprintln!("{e}");
-            ExitCode::from(2)
+            ExitCode::from(e.exit_code())
         }
     }
 }
@@ -109,19 +147,30 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             output,
             fail_on,
             baseline,
+            no_project_theme,
+            confine,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = Project::load(&project)?;
+            let loaded = Project::load_with(&project, &confine.options())?;
             let report = loaded.analyse();
             let out = output.unwrap_or_else(|| default_output(&project));
-            gibbsite::site::render(&report, loaded.settings.theme_dir.as_deref(), &out)?;
+            let theme = if no_project_theme {
+                None
+            } else {
+                loaded.settings.theme_dir.as_deref()
+            };
+            gibbsite::site::render(&report, theme, &out)?;
             print_summary(&report);
             eprintln!("site written to {}", out.display());
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
-        Command::Import { model, output } => {
+        Command::Import {
+            model,
+            output,
+            force,
+        } => {
             let model = gibbsite::project::sbml::read_sbml(&model)?;
-            gibbsite::project::write::write_project(&model, &output)?;
+            gibbsite::project::write::write_project_with(&model, &output, force)?;
             eprintln!(
                 "{} reactions, {} metabolites, {} compartments written to {}",
                 model.reactions.len(),
@@ -136,9 +185,10 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             fail_on,
             baseline,
             format,
+            confine,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = Project::load(&project)?;
+            let loaded = Project::load_with(&project, &confine.options())?;
             let report = loaded.analyse();
             let model_file = loaded
                 .settings

@@ -185,10 +185,34 @@ pub fn settings_yaml(title: &str, model_file: &str) -> String {
     )
 }
 
-/// Write `model.yaml` and `gibbsite.yaml` into `dir` (created if needed).
-/// Existing files are replaced only after both were written completely.
+/// Write `model.yaml` and `gibbsite.yaml` into `dir` (created if needed);
+/// refuses when `dir` already holds either file.
 pub fn write_project(model: &Model, dir: &Path) -> Result<()> {
-    std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
+    write_project_with(model, dir, false)
+}
+
+/// [`write_project`]; with `force`, existing files are replaced (only after
+/// both new ones were written completely).
+pub fn write_project_with(model: &Model, dir: &Path, force: bool) -> Result<()> {
+    if !force {
+        let existing: Vec<&str> = ["model.yaml", super::SETTINGS_FILE]
+            .into_iter()
+            .filter(|name| std::fs::symlink_metadata(dir.join(name)).is_ok())
+            .collect();
+        if !existing.is_empty() {
+            return Err(Error::input(
+                crate::error::Diagnostic::new(
+                    dir,
+                    format!(
+                        "already holds {}; refusing to overwrite a project",
+                        existing.join(" and ")
+                    ),
+                )
+                .hint("pass --force to replace it, or choose another folder"),
+            ));
+        }
+    }
+    std::fs::create_dir_all(dir).map_err(|e| Error::output(dir, e))?;
     let files = [
         ("model.yaml", model_to_yaml(model)),
         (
@@ -204,13 +228,13 @@ pub fn write_project(model: &Model, dir: &Path) -> Result<()> {
                 let _ = std::fs::remove_file(t);
             }
             let _ = std::fs::remove_file(&tmp);
-            return Err(Error::io(&tmp, e));
+            return Err(Error::output(&tmp, e));
         }
         staged.push(tmp);
     }
     for ((name, _), tmp) in files.iter().zip(&staged) {
         let target = dir.join(name);
-        std::fs::rename(tmp, &target).map_err(|e| Error::io(&target, e))?;
+        std::fs::rename(tmp, &target).map_err(|e| Error::output(&target, e))?;
     }
     Ok(())
 }
