@@ -264,13 +264,27 @@ fn fields_of<'de, T: Deserialize<'de>>() -> &'static [&'static str] {
     fields
 }
 
-/// The closest candidate to a misspelt name, if one is close enough.
+/// Names longer than this get no "did you mean" (no id is that long; the
+/// comparison would cost time in proportion to the square of the length).
+pub const MAX_SUGGESTED_LENGTH: usize = 200;
+
+/// The closest candidate to a misspelt name, if one is close enough. Only
+/// candidates of similar length are compared (a close match cannot differ
+/// much in length), so a model with thousands of ids and many unknown names
+/// stays fast.
 pub fn did_you_mean<'a>(
     unknown: &str,
     candidates: impl IntoIterator<Item = &'a str>,
 ) -> Option<&'a str> {
+    let length = unknown.chars().count();
+    if length > MAX_SUGGESTED_LENGTH {
+        return None;
+    }
+    let slack = length / 4 + 2;
     candidates
         .into_iter()
+        .filter(|c| c.len().abs_diff(unknown.len()) <= 4 * slack)
+        .filter(|c| c.chars().count().abs_diff(length) <= slack)
         .map(|c| (strsim::jaro_winkler(unknown, c), c))
         .filter(|(score, _)| *score > 0.8)
         .max_by(|a, b| a.0.total_cmp(&b.0))
@@ -301,5 +315,10 @@ mod tests {
             Some("equation")
         );
         assert_eq!(did_you_mean("zzz", ["id", "equation"]), None);
+        // Long names and far-off lengths are not compared at all.
+        let long = "x".repeat(MAX_SUGGESTED_LENGTH + 1);
+        assert_eq!(did_you_mean(&long, [long.as_str()]), None);
+        assert_eq!(did_you_mean("atp_c", ["atp_c_and_much_more"]), None);
+        assert_eq!(did_you_mean("atpc", ["atp_c"]), Some("atp_c"));
     }
 }

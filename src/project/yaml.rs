@@ -187,7 +187,77 @@ fn clean_message(message: &str) -> String {
     if trimmed.is_empty() {
         "invalid YAML".to_string()
     } else {
-        trimmed.to_string()
+        describe_strings(trimmed)
+    }
+}
+
+/// Type errors quote the offending value (`invalid type: string "…"`); when
+/// a settings key points at some other file, that value is the whole file.
+/// Strings longer than a short value are described by their size instead.
+fn describe_strings(message: &str) -> String {
+    const KEEP: usize = 40;
+    let mut out = String::new();
+    let mut rest = message;
+    while let Some(at) = rest.find("string \"") {
+        out.push_str(&rest[..at]);
+        let body = &rest[at + "string \"".len()..];
+        // serde writes the value with Rust escapes; find its closing quote
+        // and count the bytes it stands for.
+        let mut chars = body.char_indices();
+        let mut bytes = 0usize;
+        let mut end = None;
+        while let Some((i, c)) = chars.next() {
+            match c {
+                '"' => {
+                    end = Some(i);
+                    break;
+                }
+                '\\' => match chars.next() {
+                    Some((_, 'u')) => {
+                        // \u{XXXX}
+                        let mut hex = String::new();
+                        for (_, h) in chars.by_ref() {
+                            if h == '}' {
+                                break;
+                            }
+                            if h != '{' {
+                                hex.push(h);
+                            }
+                        }
+                        bytes += u32::from_str_radix(&hex, 16)
+                            .ok()
+                            .and_then(char::from_u32)
+                            .map_or(1, char::len_utf8);
+                    }
+                    Some(_) => bytes += 1,
+                    None => break,
+                },
+                c => bytes += c.len_utf8(),
+            }
+        }
+        match end {
+            Some(end) if bytes > KEEP => {
+                out.push_str(&format!(
+                    "a string of {} bytes",
+                    super::read::group(bytes as u64)
+                ));
+                rest = &body[end + 1..];
+            }
+            Some(end) => {
+                out.push_str(&rest[at..at + "string \"".len() + end + 1]);
+                rest = &body[end + 1..];
+            }
+            None => {
+                out.push_str("a string");
+                rest = "";
+            }
+        }
+    }
+    out.push_str(rest);
+    // Our schema types are internal names; say what the user writes.
+    match out.find("expected struct ") {
+        Some(at) => format!("{}expected a mapping", &out[..at]),
+        None => out,
     }
 }
 
@@ -214,6 +284,27 @@ fn segments(path: &serde_ignored::Path<'_>) -> Vec<Segment> {
 #[cfg(test)]
 mod depth_tests {
     use super::*;
+
+    #[test]
+    fn type_errors_describe_long_strings_by_size() {
+        let text = format!("root:x:0:0:{}\nnext line \"quoted\" é\n", "a".repeat(1_300));
+        let mut diagnostics = Vec::new();
+        let parsed = parse::<super::super::schema::RawModelFile>(
+            Path::new("m.yaml"),
+            &text,
+            FileKind::Model,
+            &mut diagnostics,
+        );
+        assert!(parsed.is_none());
+        assert_eq!(
+            diagnostics[0].message,
+            "invalid type: a string of 1,333 bytes, expected a mapping"
+        );
+        assert_eq!(
+            describe_strings("invalid type: string \"abc\", expected f64"),
+            "invalid type: string \"abc\", expected f64"
+        );
+    }
 
     #[test]
     fn ordinary_files_are_not_too_deep() {
