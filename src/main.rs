@@ -141,6 +141,12 @@ fn main() -> ExitCode {
 }
 
 fn run(command: Command) -> Result<ExitCode, Error> {
+    if let Err(message) = gibbsite::report::build::source_date_epoch() {
+        return Err(Error::input(gibbsite::Diagnostic::new(
+            Path::new("SOURCE_DATE_EPOCH"),
+            message,
+        )));
+    }
     match command {
         Command::Build {
             project,

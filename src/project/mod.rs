@@ -6,6 +6,7 @@
 //! runs with default settings. Nothing here writes anything.
 
 pub mod equation;
+pub mod limits;
 pub mod model_file;
 pub mod read;
 pub mod sbml;

@@ -84,6 +84,18 @@ pub fn parse_sbml(text: &str, file: &Path) -> Result<Model, Error> {
         problems: Vec::new(),
     };
     let model = reader.read(&document, file);
+    if model.as_ref().is_some_and(|m| m.reactions.is_empty()) {
+        // Nothing to check is not a pass.
+        let offset = document
+            .descendants()
+            .find(|n| n.has_tag_name("model"))
+            .map_or(0, |n| n.range().start);
+        reader.problems.push(Problem {
+            offset,
+            message: "the model defines no reactions".to_string(),
+            hint: Some("an SBML model lists its reactions in <listOfReactions>".to_string()),
+        });
+    }
     if reader.problems.is_empty() {
         if let Some(model) = model {
             return Ok(model);
@@ -500,11 +512,19 @@ impl Reader {
     fn charge(&mut self, node: Node, fbc: &str, id: &str) -> Option<i32> {
         let attribute = node.attribute_node((fbc, "charge"))?;
         let text = attribute.value().trim();
-        if let Ok(charge) = text.parse::<i32>() {
-            return Some(charge);
+        let charge = match text.parse::<i32>() {
+            Ok(charge) => Some(charge),
+            Err(_) => match parse_number(text) {
+                Some(v) if v.fract() == 0.0 && v.abs() < 1e6 => Some(v as i32),
+                _ => None,
+            },
+        };
+        if let Some(Err(message)) = charge.map(|z| crate::project::limits::charge(z.into())) {
+            self.problem(attribute.range().start, format!("species `{id}`: {message}"));
+            return None;
         }
-        match parse_number(text) {
-            Some(v) if v.fract() == 0.0 && v.abs() < 1e6 => Some(v as i32),
+        match charge {
+            Some(z) => Some(z),
             _ => {
                 self.problem(
                     attribute.range().start,
@@ -549,7 +569,18 @@ impl Reader {
                     let coefficient = match reference.attribute_node("stoichiometry") {
                         None => 1.0,
                         Some(s) => match parse_number(s.value()) {
-                            Some(v) if v.is_finite() && v >= 0.0 => v,
+                            Some(v) if v.is_finite() && v >= 0.0 => {
+                                if let Err(message) = crate::project::limits::coefficient(v) {
+                                    self.problem(
+                                        s.range().start,
+                                        format!(
+                                            "stoichiometry of `{species_id}` in reaction `{id}`: {message}"
+                                        ),
+                                    );
+                                    continue;
+                                }
+                                v
+                            }
                             Some(_) => {
                                 self.problem(
                                     s.range().start,
