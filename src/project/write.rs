@@ -317,9 +317,32 @@ impl Flow {
     }
 }
 
-/// A YAML double-quoted scalar (JSON string syntax is a subset of it).
+/// A YAML double-quoted scalar that reads back to exactly `s`: every
+/// character YAML does not allow as-is (C0 and C1 controls, DEL, U+FFFE/F)
+/// and those libyaml takes for line breaks (U+0085, U+2028, U+2029) or a
+/// byte-order mark (U+FEFF) is written as an escape.
 fn q(s: &str) -> String {
-    serde_json::to_string(s).expect("strings always serialise")
+    let mut out = String::with_capacity(s.len() + 2);
+    out.push('"');
+    for c in s.chars() {
+        match c {
+            '"' => out.push_str("\\\""),
+            '\\' => out.push_str("\\\\"),
+            '\n' => out.push_str("\\n"),
+            '\t' => out.push_str("\\t"),
+            '\r' => out.push_str("\\r"),
+            '\u{0}'..='\u{1f}'
+            | '\u{7f}'..='\u{9f}'
+            | '\u{2028}'
+            | '\u{2029}'
+            | '\u{feff}'
+            | '\u{fffe}'
+            | '\u{ffff}' => out.push_str(&format!("\\u{:04X}", c as u32)),
+            c => out.push(c),
+        }
+    }
+    out.push('"');
+    out
 }
 
 /// Shortest decimal that reads back to the same f64.

@@ -46,9 +46,17 @@ pub fn parse<T: DeserializeOwned>(
     match result {
         Ok(value) => Some(Parsed { value, map }),
         Err(error) => {
-            let location = error.location().map(|l| (l.line(), l.column()));
-            diagnostics
-                .push(Diagnostic::new(file, clean_message(&error.to_string())).at_opt(location));
+            let mut message = error.to_string();
+            let mut location = error.location().map(|l| (l.line(), l.column()));
+            // libyaml's reader errors ("control characters are not allowed
+            // at position 34") carry a byte offset instead of a location.
+            if let Some((before, offset)) = message.rsplit_once(" at position ") {
+                if let Ok(offset) = offset.trim().parse::<usize>() {
+                    location = Some(super::read::line_column(text.as_bytes(), offset));
+                    message = before.to_string();
+                }
+            }
+            diagnostics.push(Diagnostic::new(file, clean_message(&message)).at_opt(location));
             None
         }
     }
@@ -284,6 +292,17 @@ fn segments(path: &serde_ignored::Path<'_>) -> Vec<Segment> {
 #[cfg(test)]
 mod depth_tests {
     use super::*;
+
+    #[test]
+    fn reader_errors_get_a_line_and_column() {
+        let text = "reactions:\n  - id: R1\n    name: \"aé\u{7f}b\"\n";
+        let mut diagnostics = Vec::new();
+        let parsed =
+            parse::<serde_yaml::Value>(Path::new("m.yaml"), text, FileKind::Model, &mut diagnostics);
+        assert!(parsed.is_none());
+        assert_eq!(diagnostics[0].message, "control characters are not allowed");
+        assert_eq!((diagnostics[0].line, diagnostics[0].column), (Some(3), Some(14)));
+    }
 
     #[test]
     fn type_errors_describe_long_strings_by_size() {
