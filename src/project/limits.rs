@@ -24,7 +24,7 @@ pub fn coefficient(c: f64) -> Result<(), String> {
         Ok(())
     } else {
         Err(format!(
-            "coefficient {c} is outside the accepted range (at most 1e6 in size)"
+            "coefficient {c:e} is outside the accepted range (at most 1e6 in size)"
         ))
     }
 }

@@ -349,7 +349,9 @@ fn apply_side_tables(
     let mut diagnostics = Vec::new();
     for (i, name) in tables.0.iter().enumerate() {
         let path = root.join(name);
-        if !path.is_file() {
+        // Anything that exists goes to the reader, which says why it will
+        // not read a device, a folder or a file outside the project.
+        if !path.exists() {
             let p = if tables.0.len() == 1 {
                 vec![Segment::Key("tables".into())]
             } else {
