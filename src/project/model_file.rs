@@ -324,8 +324,9 @@ pub fn build(
     }
 
     // An empty file, `{}` or a model without reactions would pass every
-    // check by having nothing to check: say so instead.
-    if sources.iter().all(|s| s.raw.reactions.is_empty()) {
+    // check by having nothing to check: say so instead (when nothing else
+    // is wrong, to keep other errors in front).
+    if diagnostics.len() == before && sources.iter().all(|s| s.raw.reactions.is_empty()) {
         let at = first
             .map
             .key(&[Segment::Key("reactions".into())])

@@ -21,6 +21,7 @@ pub fn read_flux_bytes(
     bytes: Vec<u8>,
     reaction_ids: &HashMap<String, usize>,
 ) -> Result<Vec<(usize, f64)>, Vec<Diagnostic>> {
+    let lines = line_starts(&bytes);
     let mut reader = table_reader(path, bytes);
     let headers = match reader.headers() {
         Ok(h) => h.clone(),
@@ -50,7 +51,7 @@ pub fn read_flux_bytes(
                 continue;
             }
         };
-        let line = record.position().map(|p| p.line() as usize).unwrap_or(0);
+        let line = line_of(&lines, &record);
         let id = record.get(rc).unwrap_or("");
         let flux_text = record.get(fc).unwrap_or("");
         let Some(&idx) = reaction_ids.get(id) else {
@@ -102,6 +103,47 @@ fn table_reader(path: &Path, bytes: Vec<u8>) -> csv::Reader<std::io::Cursor<Vec<
         .comment(Some(b'#'))
         .trim(csv::Trim::All)
         .from_reader(std::io::Cursor::new(bytes))
+}
+
+/// Where lines start, and whether the csv reader skips them (`#` comments,
+/// empty lines). The reader's own line count and record offsets do not
+/// account for skipped lines, so a record's line is found from here.
+struct Lines {
+    starts: Vec<usize>,
+    skipped: Vec<bool>,
+}
+
+fn line_starts(bytes: &[u8]) -> Lines {
+    let starts: Vec<usize> = std::iter::once(0)
+        .chain(
+            bytes
+                .iter()
+                .enumerate()
+                .filter(|(_, b)| **b == b'\n')
+                .map(|(i, _)| i + 1),
+        )
+        .collect();
+    let skipped = starts
+        .iter()
+        .map(|&s| matches!(bytes.get(s), Some(b'#' | b'\n' | b'\r')))
+        .collect();
+    Lines { starts, skipped }
+}
+
+/// 1-based line of a record: the first line at or after the offset where
+/// the reader started it that is not skipped.
+fn line_of(lines: &Lines, record: &csv::StringRecord) -> usize {
+    let Some(p) = record.position() else {
+        return 0;
+    };
+    let mut index = lines
+        .starts
+        .partition_point(|&s| s <= p.byte() as usize)
+        .saturating_sub(1);
+    while lines.skipped.get(index) == Some(&true) {
+        index += 1;
+    }
+    index + 1
 }
 
 fn csv_error(path: &Path, e: &csv::Error) -> Diagnostic {
@@ -171,6 +213,7 @@ pub fn apply_side_table_bytes(
     bytes: Vec<u8>,
     model: &mut crate::model::Model,
 ) -> Result<(), Vec<Diagnostic>> {
+    let lines = line_starts(&bytes);
     let mut reader = table_reader(path, bytes);
     let headers: Vec<String> = match reader.headers() {
         Ok(h) => h.iter().map(|c| c.to_lowercase()).collect(),
@@ -231,7 +274,7 @@ pub fn apply_side_table_bytes(
                 continue;
             }
         };
-        let line = record.position().map(|p| p.line() as usize).unwrap_or(0);
+        let line = line_of(&lines, &record);
         let cell = |name: &str| {
             column(name)
                 .and_then(|c| record.get(c))
