@@ -69,7 +69,10 @@ pub fn shorten(message: String) -> String {
             out.push('`');
         }
         if let Some(bytes) = shortened.take() {
-            out.push_str(&format!(" ({} bytes)", crate::project::read::group(bytes as u64)));
+            out.push_str(&format!(
+                " ({} bytes)",
+                crate::project::read::group(bytes as u64)
+            ));
         }
         // Odd parts with a closing backtick after them are quoted values.
         let quoted = i % 2 == 1 && i + 1 < parts.len();

@@ -94,9 +94,14 @@ mod tests {
 
     #[test]
     fn windows_reserved_names_get_the_hash() {
-        for id in ["CON", "con", "Prn", "aux", "NUL", "COM1", "com9", "LPT1", "lpt9"] {
+        for id in [
+            "CON", "con", "Prn", "aux", "NUL", "COM1", "com9", "LPT1", "lpt9",
+        ] {
             let s = slug(id);
-            assert!(s.starts_with(&format!("{id}-")) && s.len() == id.len() + 9, "{s}");
+            assert!(
+                s.starts_with(&format!("{id}-")) && s.len() == id.len() + 9,
+                "{s}"
+            );
         }
         // Only the exact names: these are ordinary.
         for id in ["CONS", "COM0", "COM10", "LPT", "nul_c", "icon"] {

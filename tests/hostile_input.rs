@@ -88,7 +88,12 @@ impl Scene {
             std::fs::read_dir(self.root()).unwrap().count(),
             std::fs::read_dir(self.root())
                 .unwrap()
-                .filter(|e| !e.as_ref().unwrap().file_name().to_string_lossy().starts_with('.'))
+                .filter(|e| !e
+                    .as_ref()
+                    .unwrap()
+                    .file_name()
+                    .to_string_lossy()
+                    .starts_with('.'))
                 .count(),
             "a staging folder was left behind"
         );
@@ -185,7 +190,10 @@ fn symlink_inside_the_theme_pointing_outside_is_refused() {
     let s = Scene::new();
     s.write("proj/theme/style.css", "body {}");
     s.symlink(&s.root().join("secret.txt"), "proj/theme/leak.txt");
-    s.write("proj/gibbsite.yaml", "title: tiny\nmodel: model.yaml\ntheme: theme\n");
+    s.write(
+        "proj/gibbsite.yaml",
+        "title: tiny\nmodel: model.yaml\ntheme: theme\n",
+    );
     s.build_fails(
         &[],
         2,
@@ -223,8 +231,14 @@ fn a_non_yaml_model_file_is_described_not_echoed() {
 #[test]
 fn no_project_theme_renders_with_the_default_theme() {
     let s = Scene::new();
-    s.write("proj/theme/layout.html", "{{ broken( <script>evil()</script>");
-    s.write("proj/gibbsite.yaml", "title: tiny\nmodel: model.yaml\ntheme: theme\n");
+    s.write(
+        "proj/theme/layout.html",
+        "{{ broken( <script>evil()</script>",
+    );
+    s.write(
+        "proj/gibbsite.yaml",
+        "title: tiny\nmodel: model.yaml\ntheme: theme\n",
+    );
     let out = gibbsite(
         &["build", "--no-project-theme", "-o"],
         &[&s.site(), &s.project()],
@@ -317,7 +331,10 @@ fn deep_nesting_is_refused_before_parsing() {
     let err = s.build_fails(
         &[],
         2,
-        &["<tmp>/proj/model.yaml:2:", "error: nesting deeper than 64 levels"],
+        &[
+            "<tmp>/proj/model.yaml:2:",
+            "error: nesting deeper than 64 levels",
+        ],
     );
     assert!(err.lines().count() < 5, "{err}");
     // Not a speed measurement: a guard against the 178 s case.
@@ -330,7 +347,10 @@ fn long_unknown_ids_are_not_echoed_whole() {
     let id = "x".repeat(1_000_000);
     s.write(
         "proj/model.yaml",
-        &MODEL.replace("{id: R1, equation: a_c <=> b_c}", &format!("{{id: R1, equation: a_c <=> {id}}}")),
+        &MODEL.replace(
+            "{id: R1, equation: a_c <=> b_c}",
+            &format!("{{id: R1, equation: a_c <=> {id}}}"),
+        ),
     );
     let err = s.build_fails(&[], 2, &["(1,000,000 bytes)"]);
     assert!(err.len() < 2_000, "{} bytes of stderr", err.len());
@@ -473,7 +493,10 @@ fn the_output_folder_exists_at_every_instant_of_a_rebuild() {
     let (missing, looks) = watcher.join().unwrap();
     assert!(looks > 100, "the watcher looked {looks} times");
     if cfg!(target_os = "linux") {
-        assert_eq!(missing, 0, "the site was missing {missing} of {looks} times");
+        assert_eq!(
+            missing, 0,
+            "the site was missing {missing} of {looks} times"
+        );
     }
 }
 
@@ -487,18 +510,26 @@ fn import_refuses_to_overwrite_without_force() {
     let out = gibbsite(&["import"], &[&sbml, Path::new("-o"), &s.project()], &[]);
     assert_eq!(out.status.code(), Some(2));
     assert!(
-        stderr(&out).contains("already holds model.yaml and gibbsite.yaml; refusing to overwrite a project"),
+        stderr(&out).contains(
+            "already holds model.yaml and gibbsite.yaml; refusing to overwrite a project"
+        ),
         "{}",
         stderr(&out)
     );
-    assert_eq!(std::fs::read(s.project().join("model.yaml")).unwrap(), before);
+    assert_eq!(
+        std::fs::read(s.project().join("model.yaml")).unwrap(),
+        before
+    );
     let out = gibbsite(
         &["import", "--force"],
         &[&sbml, Path::new("-o"), &s.project()],
         &[],
     );
     assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
-    assert_ne!(std::fs::read(s.project().join("model.yaml")).unwrap(), before);
+    assert_ne!(
+        std::fs::read(s.project().join("model.yaml")).unwrap(),
+        before
+    );
 }
 
 // ---- 8. markdown output ----
@@ -509,7 +540,10 @@ fn markdown_summary_keeps_ids_inert() {
     // An unbalanced reaction gives an error finding whose subject is the id.
     let id = "![t](https://host/x.png)@team";
     let model = MODEL
-        .replace("formula: C3H6O3, charge: 0, formation_energy: {value: -510", "formula: C3H7O3, charge: 0, formation_energy: {value: -510")
+        .replace(
+            "formula: C3H6O3, charge: 0, formation_energy: {value: -510",
+            "formula: C3H7O3, charge: 0, formation_energy: {value: -510",
+        )
         .replace("{id: R1,", &format!("{{id: \"{id}\","));
     s.write("proj/model.yaml", &model);
     let out = gibbsite(&["check", "--format", "markdown"], &[&s.project()], &[]);
@@ -525,12 +559,19 @@ fn windows_reserved_names_do_not_become_page_names() {
     let s = Scene::new();
     s.write(
         "proj/model.yaml",
-        &MODEL.replace("R1", "CON").replace("a_c", "aux").replace("b_c", "Nul"),
+        &MODEL
+            .replace("R1", "CON")
+            .replace("a_c", "aux")
+            .replace("b_c", "Nul"),
     );
     let out = gibbsite(&["build", "-o"], &[&s.site(), &s.project()], &[]);
     assert_eq!(out.status.code(), Some(0), "{}", stderr(&out));
     for file in snapshot(&s.site()).keys() {
-        let stem = file.file_stem().unwrap().to_string_lossy().to_ascii_uppercase();
+        let stem = file
+            .file_stem()
+            .unwrap()
+            .to_string_lossy()
+            .to_ascii_uppercase();
         assert!(
             !["CON", "AUX", "NUL"].contains(&stem.as_str()),
             "{}",

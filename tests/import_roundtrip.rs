@@ -70,8 +70,16 @@ reactions:
 
     #[test]
     fn the_reported_characters_round_trip() {
-        round_trip("del \u{7f} nel \u{85}", "ls \u{2028} ps \u{2029}", "bom \u{feff} \u{fffe}");
-        round_trip("tab\tcr\r\nnul\u{0}", "\u{9f}\u{1b}[31m", "𝔤𝔦𝔟𝔟𝔰𝔦𝔱𝔢 \"q\" \\ '");
+        round_trip(
+            "del \u{7f} nel \u{85}",
+            "ls \u{2028} ps \u{2029}",
+            "bom \u{feff} \u{fffe}",
+        );
+        round_trip(
+            "tab\tcr\r\nnul\u{0}",
+            "\u{9f}\u{1b}[31m",
+            "𝔤𝔦𝔟𝔟𝔰𝔦𝔱𝔢 \"q\" \\ '",
+        );
     }
 
     proptest! {

@@ -33,7 +33,9 @@ pub fn charge(z: i64) -> Result<(), String> {
     if z.abs() <= MAX_CHARGE as i64 {
         Ok(())
     } else {
-        Err(format!("charge {z} is outside the accepted range -100 to 100"))
+        Err(format!(
+            "charge {z} is outside the accepted range -100 to 100"
+        ))
     }
 }
 
@@ -41,7 +43,9 @@ pub fn hydrogens(h: i64) -> Result<(), String> {
     if (0..=MAX_HYDROGENS as i64).contains(&h) {
         Ok(())
     } else {
-        Err(format!("hydrogens {h} is outside the accepted range 0 to 1,000"))
+        Err(format!(
+            "hydrogens {h} is outside the accepted range 0 to 1,000"
+        ))
     }
 }
 

@@ -37,9 +37,7 @@ pub fn set_max_input_size(bytes: u64) {
 /// multiples).
 pub fn parse_size(text: &str) -> Result<u64, String> {
     let t = text.trim();
-    let split = t
-        .find(|c: char| !c.is_ascii_digit())
-        .unwrap_or(t.len());
+    let split = t.find(|c: char| !c.is_ascii_digit()).unwrap_or(t.len());
     let (digits, unit) = t.split_at(split);
     let number: u64 = digits
         .parse()
@@ -203,7 +201,10 @@ pub fn line_column(bytes: &[u8], offset: usize) -> (usize, usize) {
         .iter()
         .rposition(|&b| b == b'\n')
         .map_or(0, |i| i + 1);
-    let column = String::from_utf8_lossy(&before[line_start..]).chars().count() + 1;
+    let column = String::from_utf8_lossy(&before[line_start..])
+        .chars()
+        .count()
+        + 1;
     (line, column)
 }
 

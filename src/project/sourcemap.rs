@@ -203,7 +203,13 @@ impl Builder {
 
     /// The node for `slot` (the first one recorded wins, as for repeated
     /// keys), or `None` when nothing is recorded there.
-    fn record(&mut self, slot: Slot, mark: Marker, inline_scalar: bool, quoted: bool) -> Option<usize> {
+    fn record(
+        &mut self,
+        slot: Slot,
+        mark: Marker,
+        inline_scalar: bool,
+        quoted: bool,
+    ) -> Option<usize> {
         let location = Location {
             line: mark.line(),
             column: mark.col() + 1,
@@ -257,7 +263,9 @@ impl MarkedEventReceiver for Builder {
                 let inline = !value.contains('\n')
                     && matches!(
                         style,
-                        TScalarStyle::Plain | TScalarStyle::SingleQuoted | TScalarStyle::DoubleQuoted
+                        TScalarStyle::Plain
+                            | TScalarStyle::SingleQuoted
+                            | TScalarStyle::DoubleQuoted
                     );
                 self.record(slot, mark, inline, quoted);
             }
@@ -333,7 +341,9 @@ mod tests {
         assert_eq!((b1.line, b1.column), (1, 13));
         let max = map.value(&[key("conc"), key("max")]).unwrap();
         assert_eq!((max.line, max.column), (2, 24));
-        let nearest = map.nearest(&[key("conc"), key("nope"), Segment::Index(3)]).unwrap();
+        let nearest = map
+            .nearest(&[key("conc"), key("nope"), Segment::Index(3)])
+            .unwrap();
         assert_eq!((nearest.line, nearest.column), (2, 7));
         let k = map.key(&[key("conc"), key("max")]).unwrap();
         assert_eq!((k.line, k.column), (2, 19));

@@ -297,11 +297,18 @@ mod depth_tests {
     fn reader_errors_get_a_line_and_column() {
         let text = "reactions:\n  - id: R1\n    name: \"aé\u{7f}b\"\n";
         let mut diagnostics = Vec::new();
-        let parsed =
-            parse::<serde_yaml::Value>(Path::new("m.yaml"), text, FileKind::Model, &mut diagnostics);
+        let parsed = parse::<serde_yaml::Value>(
+            Path::new("m.yaml"),
+            text,
+            FileKind::Model,
+            &mut diagnostics,
+        );
         assert!(parsed.is_none());
         assert_eq!(diagnostics[0].message, "control characters are not allowed");
-        assert_eq!((diagnostics[0].line, diagnostics[0].column), (Some(3), Some(14)));
+        assert_eq!(
+            (diagnostics[0].line, diagnostics[0].column),
+            (Some(3), Some(14))
+        );
     }
 
     #[test]
@@ -357,7 +364,11 @@ mod depth_tests {
 
     #[test]
     fn too_deep_text_is_an_error_at_its_place() {
-        let flow = format!("id: x\nreactions: {}{}\n", "[".repeat(5000), "]".repeat(5000));
+        let flow = format!(
+            "id: x\nreactions: {}{}\n",
+            "[".repeat(5000),
+            "]".repeat(5000)
+        );
         let mut diagnostics = Vec::new();
         let parsed = parse::<serde_yaml::Value>(
             Path::new("m.yaml"),

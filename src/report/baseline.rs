@@ -11,7 +11,10 @@ use std::path::Path;
 pub fn load(path: &Path) -> Result<Report> {
     // Bounded and regular files only, like every other input.
     let text = crate::project::read::read_text(path).map_err(|d| {
-        Error::input(Diagnostic::new(path, format!("cannot read baseline: {}", d.message)))
+        Error::input(Diagnostic::new(
+            path,
+            format!("cannot read baseline: {}", d.message),
+        ))
     })?;
     serde_json::from_str(&text).map_err(|e| {
         Error::input(

@@ -148,15 +148,12 @@ pub fn source_date_epoch() -> Result<Option<i64>, String> {
 /// RFC 3339 UTC time of the run; SOURCE_DATE_EPOCH (seconds) makes it fixed
 /// for reproducible builds.
 fn generated_timestamp() -> String {
-    let secs = source_date_epoch()
-        .ok()
-        .flatten()
-        .unwrap_or_else(|| {
-            std::time::SystemTime::now()
-                .duration_since(std::time::UNIX_EPOCH)
-                .map(|d| d.as_secs() as i64)
-                .unwrap_or(0)
-        });
+    let secs = source_date_epoch().ok().flatten().unwrap_or_else(|| {
+        std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map(|d| d.as_secs() as i64)
+            .unwrap_or(0)
+    });
     time::OffsetDateTime::from_unix_timestamp(secs)
         .ok()
         .and_then(|t| {

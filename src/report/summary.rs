@@ -119,7 +119,10 @@ mod tests {
         assert_eq!(code("PGI"), "`PGI`");
         assert_eq!(code("a`b"), "``a`b``");
         assert_eq!(code("`x``"), "``` `x`` ```");
-        assert_eq!(code("![t](https://host/x.png)"), "`![t](https://host/x.png)`");
+        assert_eq!(
+            code("![t](https://host/x.png)"),
+            "`![t](https://host/x.png)`"
+        );
         assert_eq!(code("a|b\nc"), "`a\\|b c`");
     }
 

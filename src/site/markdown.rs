@@ -167,7 +167,10 @@ mod tests {
             "![a](//host/a.png) ![b](\\\\host\\b.png) ![c](/etc/c.png) ![d](pics/d.png) ![e](<\u{1}//host/e.png>)",
         );
         assert_eq!(html.matches("<img").count(), 1, "{html}");
-        assert!(html.contains(r#"<img src="pics/d.png" alt="d" />"#), "{html}");
+        assert!(
+            html.contains(r#"<img src="pics/d.png" alt="d" />"#),
+            "{html}"
+        );
         assert!(html.contains(r#"<a href="//host/a.png">a</a>"#), "{html}");
         assert!(html.contains(">b</a>") && html.contains(">c</a>"), "{html}");
     }

@@ -58,9 +58,7 @@ impl Theme {
             // A theme is read inside its own folder: a symlink pointing out of
             // it (to a key, a credentials file) is refused, as are devices.
             let confinement = crate::project::read::Confinement::new(dir, &[]);
-            crate::project::read::confined(confinement, || {
-                read_dir_recursive(dir, "", &mut user)
-            })?;
+            crate::project::read::confined(confinement, || read_dir_recursive(dir, "", &mut user))?;
             for (name, (path, bytes)) in user {
                 files.insert(name.clone(), Cow::Owned(bytes));
                 user_files.insert(name, path);

@@ -44,10 +44,10 @@ pub use roles::{infer_role, is_extracellular, RoleClues};
 
 use crate::error::{Diagnostic, Error};
 use crate::model::{Compartment, Metabolite, Model, Reaction, Special, DEFAULT_FLUX_BOUND};
+use crate::project::read;
 use position::LineIndex;
 use roxmltree::Node;
 use std::collections::{BTreeMap, HashMap};
-use crate::project::read;
 use std::path::Path;
 
 /// pH of a compartment unless the project says otherwise.
@@ -520,7 +520,10 @@ impl Reader {
             },
         };
         if let Some(Err(message)) = charge.map(|z| crate::project::limits::charge(z.into())) {
-            self.problem(attribute.range().start, format!("species `{id}`: {message}"));
+            self.problem(
+                attribute.range().start,
+                format!("species `{id}`: {message}"),
+            );
             return None;
         }
         match charge {
