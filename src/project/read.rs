@@ -128,14 +128,24 @@ pub fn check_confined(path: &Path) -> Result<PathBuf, Diagnostic> {
 /// active confinement.
 pub fn read_bytes(path: &Path) -> Result<Vec<u8>, Diagnostic> {
     let real = check_confined(path)?;
+    // Checked before opening too: opening a FIFO for reading blocks until
+    // some writer appears.
+    let not_regular = || {
+        Diagnostic::new(
+            path,
+            "not a regular file (devices, pipes and folders are not read)",
+        )
+    };
+    match std::fs::metadata(&real) {
+        Ok(meta) if !meta.is_file() => return Err(not_regular()),
+        Ok(_) => {}
+        Err(e) => return Err(open_error(path, &e)),
+    }
     let file = std::fs::File::open(&real).map_err(|e| open_error(path, &e))?;
     // Checked on the opened handle, so a swap after the check cannot matter.
     let meta = file.metadata().map_err(|e| open_error(path, &e))?;
     if !meta.is_file() {
-        return Err(Diagnostic::new(
-            path,
-            "not a regular file (devices, pipes and folders are not read)",
-        ));
+        return Err(not_regular());
     }
     let limit = max_input_size();
     if meta.len() > limit {
@@ -334,9 +344,17 @@ mod tests {
 
     #[cfg(unix)]
     #[test]
-    fn devices_are_not_read() {
+    fn devices_and_pipes_are_not_read() {
         let d = read_bytes(Path::new("/dev/zero")).unwrap_err();
         assert!(d.message.contains("not a regular file"), "{}", d.message);
+        // A FIFO would block the open until a writer came.
+        let dir = tempfile::tempdir().unwrap();
+        let fifo = dir.path().join("note.md");
+        let made = std::process::Command::new("mkfifo").arg(&fifo).status();
+        if made.is_ok_and(|s| s.success()) {
+            let d = read_bytes(&fifo).unwrap_err();
+            assert!(d.message.contains("not a regular file"), "{}", d.message);
+        }
     }
 
     #[cfg(unix)]
