@@ -611,3 +611,33 @@ fn output_failures_exit_3() {
     assert_eq!(out.status.code(), Some(3), "{}", stderr(&out));
     assert!(stderr(&out).contains("cannot write"), "{}", stderr(&out));
 }
+
+#[test]
+fn did_you_mean_is_looked_up_a_bounded_number_of_times() {
+    let s = Scene::new();
+    // 150 ids one typo-like suffix away from `R1`: R1aa, R1ab, …
+    let rows: String = (0..150u8)
+        .map(|i| {
+            format!(
+                "R1{}{},1\n",
+                (b'a' + i / 26) as char,
+                (b'a' + i % 26) as char
+            )
+        })
+        .collect();
+    s.write("proj/flux.csv", &format!("reaction,flux\n{rows}"));
+    s.write(
+        "proj/gibbsite.yaml",
+        "model: model.yaml\nscenarios:\n  - {id: day, file: flux.csv}\n",
+    );
+    let err = s.build_fails(
+        &[],
+        2,
+        &[
+            "<tmp>/proj/flux.csv:2:1: error: unknown reaction `R1aa`\n  hint: did you mean `R1`?",
+            "150 problems found",
+        ],
+    );
+    assert_eq!(err.matches("error: unknown reaction").count(), 150);
+    assert_eq!(err.matches("hint: did you mean").count(), 100);
+}

@@ -95,6 +95,7 @@ impl Project {
             path.parent().unwrap_or(Path::new("."))
         };
         let confinement = read::Confinement::new(folder, &options.allowed_dirs);
+        schema::reset_suggestions();
         read::confined(confinement, || Project::load_confined(path))
     }
 
@@ -493,6 +494,7 @@ pub fn load_model_files(
 /// Parse and validate one model YAML text (`file` names it in messages), as
 /// [`load_model_files`] does for a single file. The fuzz target's entry.
 pub fn model_from_text(file: &Path, text: &str) -> Result<Model> {
+    schema::reset_suggestions();
     let mut diagnostics = Vec::new();
     let model = yaml::parse::<RawModelFile>(file, text, FileKind::Model, &mut diagnostics)
         .and_then(|parsed| {
