@@ -2,7 +2,8 @@
 //! through the library, map the outcome to an exit code.
 //!
 //! Exit codes: 0 = no finding at or above the `--fail-on` level,
-//! 1 = at least one such finding, 2 = bad input or usage.
+//! 1 = at least one such finding, 2 = bad input or usage, 3 = writing the
+//! output failed (disk full, permission).
 
 use clap::{Parser, Subcommand, ValueEnum};
 use gibbsite::report::{baseline, Report, Severity};
@@ -19,6 +20,31 @@ use std::process::ExitCode;
 struct Cli {
     #[command(subcommand)]
     command: Command,
+    /// Largest input file (and decompressed SBML) read, e.g. `512M`, `2G`.
+    #[arg(long, global = true, value_name = "SIZE", default_value = "256M", value_parser = parse_size)]
+    max_input_size: u64,
+}
+
+fn parse_size(text: &str) -> Result<u64, String> {
+    gibbsite::project::read::parse_size(text)
+}
+
+/// Where a project's files may come from (build and check).
+#[derive(clap::Args)]
+struct Confine {
+    /// Also allow the project's settings to name files in this folder
+    /// (symlinks followed); by default everything must be inside the
+    /// project folder. May be repeated.
+    #[arg(long, value_name = "DIR")]
+    allow_dir: Vec<PathBuf>,
+}
+
+impl Confine {
+    fn options(&self) -> gibbsite::project::LoadOptions {
+        gibbsite::project::LoadOptions {
+            allowed_dirs: self.allow_dir.clone(),
+        }
+    }
 }
 
 #[derive(Subcommand)]
@@ -40,6 +66,12 @@ enum Command {
         /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
         #[arg(long = "data", value_name = "TABLE")]
         data: Vec<PathBuf>,
+        /// Render with the default theme even if the project has its own
+        /// (a project theme is trusted code: use this for third-party models).
+        #[arg(long)]
+        no_project_theme: bool,
+        #[command(flatten)]
+        confine: Confine,
     },
     /// Convert an SBML model (.xml or .xml.gz) into a gibbsite project folder.
     Import {
@@ -52,6 +84,9 @@ enum Command {
         /// potential: -155 mV}}`), written into gibbsite.yaml.
         #[arg(long)]
         conditions: Option<PathBuf>,
+        /// Replace model.yaml and gibbsite.yaml if the folder has them.
+        #[arg(long)]
+        force: bool,
     },
     /// Build reports for a collection of models and an overview comparing
     /// them; or merge slices built on several machines.
@@ -75,6 +110,8 @@ enum Command {
         /// What to print on standard output.
         #[arg(long, value_enum, default_value_t = Format::Text)]
         format: Format,
+        #[command(flatten)]
+        confine: Confine,
     },
 }
 
@@ -155,16 +192,23 @@ fn main() -> ExitCode {
             };
         }
     };
+    gibbsite::project::read::set_max_input_size(cli.max_input_size);
     match run(cli.command) {
         Ok(code) => code,
         Err(e) => {
             eprintln!("{e}");
-            ExitCode::from(2)
+            ExitCode::from(e.exit_code())
         }
     }
 }
 
 fn run(command: Command) -> Result<ExitCode, Error> {
+    if let Err(message) = gibbsite::report::build::source_date_epoch() {
+        return Err(Error::input(gibbsite::Diagnostic::new(
+            Path::new("SOURCE_DATE_EPOCH"),
+            message,
+        )));
+    }
     match command {
         Command::Build {
             project,
@@ -172,12 +216,19 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             fail_on,
             baseline,
             data,
+            no_project_theme,
+            confine,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = load(&project, &data)?;
+            let loaded = load(&project, &data, &confine.options())?;
             let report = loaded.analyse();
             let out = output.unwrap_or_else(|| default_output(&project));
-            gibbsite::site::render(&report, loaded.settings.theme_dir.as_deref(), &out)?;
+            let theme = if no_project_theme {
+                None
+            } else {
+                loaded.settings.theme_dir.as_deref()
+            };
+            gibbsite::site::render(&report, theme, &out)?;
             print_summary(&report);
             eprintln!("site written to {}", out.display());
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
@@ -186,6 +237,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             model,
             output,
             conditions,
+            force,
         } => {
             let model = gibbsite::project::sbml::read_sbml(&model)?;
             let conditions = conditions
@@ -193,7 +245,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 .map(|p| gibbsite::project::conditions::read_file(p, &model))
                 .transpose()?
                 .unwrap_or_default();
-            gibbsite::project::write::write_project_with_conditions(&model, &output, &conditions)?;
+            gibbsite::project::write::write_project_with_conditions(&model, &output, &conditions, force)?;
             eprintln!(
                 "{} reactions, {} metabolites, {} compartments written to {}",
                 model.reactions.len(),
@@ -210,9 +262,10 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             baseline,
             format,
             data,
+            confine,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = load(&project, &data)?;
+            let loaded = load(&project, &data, &confine.options())?;
             let report = loaded.analyse();
             let model_file = loaded
                 .settings
@@ -241,8 +294,12 @@ fn run(command: Command) -> Result<ExitCode, Error> {
 }
 
 /// Load a project, apply `--data` tables and print load warnings.
-fn load(project: &Path, data: &[PathBuf]) -> Result<Project, Error> {
-    let mut loaded = Project::load(project)?;
+fn load(
+    project: &Path,
+    data: &[PathBuf],
+    options: &gibbsite::project::LoadOptions,
+) -> Result<Project, Error> {
+    let mut loaded = Project::load_with(project, options)?;
     loaded.add_tables(data)?;
     for w in loaded.warnings() {
         eprintln!("{w}");

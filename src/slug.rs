@@ -15,14 +15,29 @@ pub fn slug(id: &str) -> String {
             }
         })
         .collect();
-    // `index` would replace a folder's list page.
-    let changed =
-        out != id || out.is_empty() || out.len() > 100 || out.eq_ignore_ascii_case("index");
+    // `index` would replace a folder's list page; Windows reserved names
+    // (`con.html` included) would stop the site unpacking there.
+    let changed = out != id
+        || out.is_empty()
+        || out.len() > 100
+        || out.eq_ignore_ascii_case("index")
+        || is_windows_reserved(&out);
     out.truncate(100);
     if changed {
         out.push_str(&format!("-{:08x}", fnv1a(id.as_bytes())));
     }
     out
+}
+
+/// CON, PRN, AUX, NUL, COM1–COM9, LPT1–LPT9 in any case: device names on
+/// Windows, whatever the extension.
+fn is_windows_reserved(stem: &str) -> bool {
+    let upper = stem.to_ascii_uppercase();
+    match upper.as_bytes() {
+        b"CON" | b"PRN" | b"AUX" | b"NUL" => true,
+        [b'C', b'O', b'M', d] | [b'L', b'P', b'T', d] => (b'1'..=b'9').contains(d),
+        _ => false,
+    }
 }
 
 /// Slugs for a list of ids that stay distinct even on case-insensitive file
@@ -75,6 +90,23 @@ mod tests {
         assert!(slug(&"x".repeat(500)).len() <= 109);
         assert_ne!(slug("index"), "index");
         assert_ne!(slug("Index").to_lowercase(), "index");
+    }
+
+    #[test]
+    fn windows_reserved_names_get_the_hash() {
+        for id in [
+            "CON", "con", "Prn", "aux", "NUL", "COM1", "com9", "LPT1", "lpt9",
+        ] {
+            let s = slug(id);
+            assert!(
+                s.starts_with(&format!("{id}-")) && s.len() == id.len() + 9,
+                "{s}"
+            );
+        }
+        // Only the exact names: these are ordinary.
+        for id in ["CONS", "COM0", "COM10", "LPT", "nul_c", "icon"] {
+            assert_eq!(slug(id), id);
+        }
     }
 
     #[test]

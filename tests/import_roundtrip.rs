@@ -38,3 +38,59 @@ fn shared_models_round_trip() {
         }
     }
 }
+
+/// Names from SBML may hold any Unicode text (controls, DEL, U+0085,
+/// U+2028/9, byte-order marks, non-BMP): what `import` writes must read
+/// back to the same model.
+mod unicode_names {
+    use gibbsite::project::{model_from_text, write};
+    use proptest::prelude::*;
+    use std::path::Path;
+
+    const MODEL: &str = "\
+compartments: [{id: c}]
+metabolites:
+  - {id: a_c, compartment: c}
+  - {id: b_c, compartment: c}
+reactions:
+  - {id: R1, equation: a_c -> b_c}
+";
+
+    fn round_trip(title: &str, metabolite: &str, reaction: &str) {
+        let path = Path::new("model.yaml");
+        let mut model = model_from_text(path, MODEL).unwrap();
+        model.title = title.to_string();
+        model.metabolites[0].name = metabolite.to_string();
+        model.reactions[0].name = reaction.to_string();
+        let yaml = write::model_to_yaml(&model);
+        let back = model_from_text(path, &yaml)
+            .unwrap_or_else(|e| panic!("written YAML does not load: {e}\n{yaml}"));
+        assert_eq!(back, model);
+    }
+
+    #[test]
+    fn the_reported_characters_round_trip() {
+        round_trip(
+            "del \u{7f} nel \u{85}",
+            "ls \u{2028} ps \u{2029}",
+            "bom \u{feff} \u{fffe}",
+        );
+        round_trip(
+            "tab\tcr\r\nnul\u{0}",
+            "\u{9f}\u{1b}[31m",
+            "𝔤𝔦𝔟𝔟𝔰𝔦𝔱𝔢 \"q\" \\ '",
+        );
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 500, .. ProptestConfig::default() })]
+        #[test]
+        fn random_unicode_names_round_trip(
+            title in any::<String>(),
+            metabolite in any::<String>(),
+            reaction in "\\PC*|[\u{0}-\u{a0}\u{2028}\u{2029}\u{feff}]{0,20}",
+        ) {
+            round_trip(&title, &metabolite, &reaction);
+        }
+    }
+}

@@ -156,9 +156,12 @@ fn unsupported_required_package() {
                 .to_string()
         )]
     );
-    // The same package, not required, is ignored.
+    // The same package, not required, is ignored: what remains is that the
+    // model has no reactions.
     let optional = text.replace("comp:required=\"true\"", "comp:required=\"false\"");
-    assert!(parse_sbml(&optional, Path::new(FILE)).is_ok());
+    let p = problems(&optional);
+    assert_eq!(p.len(), 1);
+    assert_eq!(p[0].2, "the model defines no reactions");
 }
 
 #[test]
@@ -300,19 +303,26 @@ fn doctype_is_refused_without_panic() {
 #[test]
 fn file_level_errors() {
     let dir = tempfile::tempdir().unwrap();
-    // Missing file: an I/O error naming the path.
+    // Missing file: an input error naming the path (exit 2, not 3).
     let missing = dir.path().join("none.xml");
     match read_sbml(&missing) {
-        Err(Error::Io { path, .. }) => assert_eq!(path, missing),
-        other => panic!("expected an I/O error, got {other:?}"),
+        Err(Error::Input(d)) => {
+            assert_eq!(d[0].file, missing);
+            assert_eq!(d[0].message, "file not found");
+        }
+        other => panic!("expected an input error, got {other:?}"),
     }
     // Bytes that are not UTF-8 (Latin-1 é on line 2, column 9).
     let latin1 = dir.path().join("latin1.xml");
     std::fs::write(&latin1, b"<sbml>\n<model n\xe9ame=\"x\"/>\n</sbml>\n").unwrap();
     let err = read_sbml(&latin1).unwrap_err();
     let d = &err.diagnostics()[0];
-    assert_eq!(d.message, "the file is not valid UTF-8 text");
+    assert_eq!(
+        d.message,
+        "the file is not valid UTF-8 text: byte 0xE9 at offset 15"
+    );
     assert_eq!((d.line, d.column), (Some(2), Some(9)));
+    assert!(d.hint.as_deref().unwrap().contains("Latin-1"));
     // A gzip header followed by garbage.
     let broken = dir.path().join("broken.xml.gz");
     std::fs::write(

@@ -168,6 +168,12 @@ fn parse_side(tokens: &[Token<'_>], sign: f64) -> Result<Vec<Term>, EquationErro
                     offset: token.offset,
                 });
             }
+            if let Err(message) = super::limits::coefficient(number) {
+                return Err(EquationError {
+                    message,
+                    offset: token.offset,
+                });
+            }
             coefficient = number;
             i += 1;
         }

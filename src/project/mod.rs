@@ -7,7 +7,9 @@
 
 pub mod conditions;
 pub mod equation;
+pub mod limits;
 pub mod model_file;
+pub mod read;
 pub mod sbml;
 pub mod schema;
 pub mod sourcemap;
@@ -70,6 +72,14 @@ pub struct Note {
     pub markdown: String,
 }
 
+/// How a project is loaded (from the command line).
+#[derive(Debug, Clone, Default)]
+pub struct LoadOptions {
+    /// Folders besides the project folder that its settings may point into
+    /// (`--allow-dir`).
+    pub allowed_dirs: Vec<PathBuf>,
+}
+
 /// A loaded, validated project.
 #[derive(Debug, Clone)]
 pub struct Project {
@@ -86,6 +96,24 @@ impl Project {
     /// SBML file (`.xml`, `.xml.gz`, `.sbml`). All input problems are
     /// returned together as `Error::Input`.
     pub fn load(path: &Path) -> Result<Project> {
+        Project::load_with(path, &LoadOptions::default())
+    }
+
+    /// [`Project::load`] with options. Every file the project names is read
+    /// inside its folder (symlinks followed) or a folder of
+    /// `options.allowed_dirs`; see [`read`].
+    pub fn load_with(path: &Path, options: &LoadOptions) -> Result<Project> {
+        let folder = if path.is_dir() {
+            path
+        } else {
+            path.parent().unwrap_or(Path::new("."))
+        };
+        let confinement = read::Confinement::new(folder, &options.allowed_dirs);
+        schema::reset_suggestions();
+        read::confined(confinement, || Project::load_confined(path))
+    }
+
+    fn load_confined(path: &Path) -> Result<Project> {
         if path.is_dir() {
             return load_settings_file(&path.join(SETTINGS_FILE));
         }
@@ -173,14 +201,7 @@ impl Project {
 }
 
 fn read_text(path: &Path) -> Result<String> {
-    std::fs::read_to_string(path).map_err(|e| {
-        let message = match e.kind() {
-            std::io::ErrorKind::NotFound => "file not found".to_string(),
-            std::io::ErrorKind::InvalidData => "file is not valid UTF-8 text".to_string(),
-            _ => format!("cannot read file: {e}"),
-        };
-        Error::input(Diagnostic::new(path, message))
-    })
+    read::read_text(path).map_err(Error::input)
 }
 
 fn load_settings_file(settings_path: &Path) -> Result<Project> {
@@ -242,24 +263,54 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         },
         None => DEFAULT_MIN_DRIVING_FORCE_KJ,
     };
+    // Folders are kept in their resolved form, so the files read from them
+    // later (theme files at render time) are checked against the real place.
     let folder = |name: &Option<String>, k: &str, diagnostics: &mut Vec<Diagnostic>| {
         let dir = root.join(name.as_ref()?);
-        if dir.is_dir() {
-            Some(dir)
-        } else {
-            diagnostics.push(
-                Diagnostic::new(
+        match read::check_confined(&dir) {
+            Ok(real) if real.is_dir() => Some(real),
+            Ok(_) => {
+                diagnostics.push(
+                    Diagnostic::new(
+                        settings_path,
+                        format!("{k} folder `{}` is not a folder", dir.display()),
+                    )
+                    .at_opt(at(&key(k))),
+                );
+                None
+            }
+            Err(d) if d.message == "file not found" => {
+                diagnostics.push(
+                    Diagnostic::new(
+                        settings_path,
+                        format!("{k} folder `{}` not found", dir.display()),
+                    )
+                    .at_opt(at(&key(k))),
+                );
+                None
+            }
+            Err(d) => {
+                let mut refused = Diagnostic::new(
                     settings_path,
-                    format!("{k} folder `{}` not found", dir.display()),
+                    format!("{k} folder `{}` {}", dir.display(), d.message),
                 )
-                .at_opt(at(&key(k))),
-            );
-            None
+                .at_opt(at(&key(k)));
+                refused.hint = d.hint;
+                diagnostics.push(refused);
+                None
+            }
         }
     };
     let notes_dir = match &raw.notes {
         Some(_) => folder(&raw.notes, "notes", &mut diagnostics),
-        None => Some(root.join("notes")).filter(|d| d.is_dir()),
+        None => {
+            let default = root.join("notes");
+            if default.is_dir() {
+                folder(&Some("notes".to_string()), "notes", &mut diagnostics)
+            } else {
+                None
+            }
+        }
     };
     let theme_dir = folder(&raw.theme, "theme", &mut diagnostics);
     let model_files: Vec<PathBuf> = raw.model.0.iter().map(|m| root.join(m)).collect();
@@ -269,19 +320,36 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         );
     }
     for (i, file) in model_files.iter().enumerate() {
-        if !file.is_file() {
-            let p = if raw.model.0.len() == 1 {
-                key("model")
-            } else {
-                vec![Segment::Key("model".into()), Segment::Index(i)]
-            };
-            diagnostics.push(
+        let p = if raw.model.0.len() == 1 {
+            key("model")
+        } else {
+            vec![Segment::Key("model".into()), Segment::Index(i)]
+        };
+        match read::check_confined(file) {
+            Ok(_) if file.is_file() => {}
+            Ok(_) | Err(_) if !file.exists() => diagnostics.push(
                 Diagnostic::new(
                     settings_path,
                     format!("model file `{}` not found", file.display()),
                 )
                 .at_opt(at(&p)),
-            );
+            ),
+            Ok(_) => diagnostics.push(
+                Diagnostic::new(
+                    settings_path,
+                    format!("model file `{}` is not a regular file", file.display()),
+                )
+                .at_opt(at(&p)),
+            ),
+            Err(d) => {
+                let mut refused = Diagnostic::new(
+                    settings_path,
+                    format!("model file `{}` {}", file.display(), d.message),
+                )
+                .at_opt(at(&p));
+                refused.hint = d.hint;
+                diagnostics.push(refused);
+            }
         }
     }
     if !diagnostics.is_empty() {
@@ -376,7 +444,9 @@ fn apply_side_tables(
     let mut diagnostics = Vec::new();
     for (i, name) in tables.0.iter().enumerate() {
         let path = root.join(name);
-        if !path.is_file() {
+        // Anything that exists goes to the reader, which says why it will
+        // not read a device, a folder or a file outside the project.
+        if !path.exists() {
             let p = if tables.0.len() == 1 {
                 vec![Segment::Key("tables".into())]
             } else {
@@ -522,6 +592,30 @@ fn load_model_files_stated(
         .collect();
     match model {
         Some(m) if diagnostics.is_empty() => Ok((m, stated)),
+        _ => {
+            diagnostics.sort();
+            diagnostics.dedup();
+            Err(Error::Input(diagnostics))
+        }
+    }
+}
+
+/// Parse and validate one model YAML text (`file` names it in messages), as
+/// [`load_model_files`] does for a single file. The fuzz target's entry.
+pub fn model_from_text(file: &Path, text: &str) -> Result<Model> {
+    schema::reset_suggestions();
+    let mut diagnostics = Vec::new();
+    let model = yaml::parse::<RawModelFile>(file, text, FileKind::Model, &mut diagnostics)
+        .and_then(|parsed| {
+            let source = model_file::ModelSource {
+                file: file.to_path_buf(),
+                raw: parsed.value,
+                map: parsed.map,
+            };
+            model_file::build(&[source], &[], &mut diagnostics)
+        });
+    match model {
+        Some(m) if diagnostics.is_empty() => Ok(m),
         _ => {
             diagnostics.sort();
             diagnostics.dedup();

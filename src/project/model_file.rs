@@ -241,13 +241,11 @@ pub fn build(
             out: diagnostics,
         };
         if let Some(t) = r.quantity(t, Kind::Temperature, &path(&[K("temperature")])) {
-            if t <= 0.0 {
-                r.at(
-                    &path(&[K("temperature")]),
-                    format!("temperature must be above 0 K, found {t} K"),
-                );
-            } else {
-                model.temperature_k = t;
+            match super::limits::temperature(t) {
+                Err(message) => {
+                    r.at(&path(&[K("temperature")]), message);
+                }
+                Ok(()) => model.temperature_k = t,
             }
         }
     }
@@ -400,6 +398,20 @@ pub fn build(
         }
     }
 
+    // An empty file, `{}` or a model without reactions would pass every
+    // check by having nothing to check: say so instead (when nothing else
+    // is wrong, to keep other errors in front).
+    if diagnostics.len() == before && sources.iter().all(|s| s.raw.reactions.is_empty()) {
+        let at = first
+            .map
+            .key(&[Segment::Key("reactions".into())])
+            .map_or((1, 1), |l| l.pair());
+        diagnostics.push(
+            Diagnostic::new(&first.file, "the model defines no reactions")
+                .at(at.0, at.1)
+                .hint("a model file lists its reactions under `reactions:`"),
+        );
+    }
     (diagnostics.len() == before).then_some(model)
 }
 
@@ -474,11 +486,8 @@ fn compartment(
         None => Some(DEFAULT_IONIC_STRENGTH_M),
     };
     if let Some(i) = ionic {
-        if i < 0.0 {
-            r.at(
-                &sub("ionic_strength"),
-                format!("ionic strength must not be negative, found {i} M"),
-            );
+        if let Err(message) = super::limits::ionic_strength(i) {
+            r.at(&sub("ionic_strength"), message);
             ok = false;
         }
     }
@@ -486,13 +495,15 @@ fn compartment(
         Some(q) => r.quantity(q, Kind::Potential, &sub("potential")),
         None => Some(0.0),
     };
+    if let Some(Err(message)) = potential.map(super::limits::potential) {
+        r.at(&sub("potential"), message);
+        ok = false;
+    }
     let temperature = match &raw.temperature {
         Some(q) => match r.quantity(q, Kind::Temperature, &sub("temperature")) {
-            Some(t) if t <= 0.0 => {
-                r.at(
-                    &sub("temperature"),
-                    format!("temperature must be above 0 K, found {t} K"),
-                );
+            Some(t) if super::limits::temperature(t).is_err() => {
+                let message = super::limits::temperature(t).unwrap_err();
+                r.at(&sub("temperature"), message);
                 None
             }
             Some(t) => Some(Some(t)),
@@ -614,6 +625,10 @@ fn metabolite(
             Special::None
         }
     };
+    if let Some(Err(message)) = raw.charge.map(|z| super::limits::charge(z.into())) {
+        r.at(&sub("charge"), message);
+        ok = false;
+    }
     if !ok {
         return None;
     }
@@ -680,7 +695,20 @@ fn species(
             Some(q) => r.quantity(q, Kind::Energy, &dfh).map(Some),
             None => Some(None),
         };
+        let mut in_range = true;
+        for (key, check) in [
+            ("charge", super::limits::charge(f.charge.into())),
+            ("hydrogens", super::limits::hydrogens(f.hydrogens.into())),
+        ] {
+            if let Err(message) = check {
+                let mut at = p.clone();
+                at.push(Segment::Key(key.into()));
+                r.at(&at, message);
+                in_range = false;
+            }
+        }
         match (g, h) {
+            _ if !in_range => ok = false,
             (Some(dfg0_kj), Some(dfh0_kj)) => forms.push(Species {
                 dfg0_kj,
                 dfh0_kj,

@@ -309,13 +309,50 @@ fn fields_of<'de, T: Deserialize<'de>>() -> &'static [&'static str] {
     fields
 }
 
-/// The closest candidate to a misspelt name, if one is close enough.
+/// Names longer than this get no "did you mean" (no id is that long; the
+/// comparison would cost time in proportion to the square of the length).
+pub const MAX_SUGGESTED_LENGTH: usize = 200;
+
+/// Suggestions made per load: each compares against every id of the model,
+/// so 10,000 unknown names in a Recon3D project would cost 10⁸ comparisons.
+/// Past this many, unknown names are still reported, without a hint.
+pub const MAX_SUGGESTIONS: usize = 100;
+
+thread_local! {
+    static SUGGESTIONS_LEFT: std::cell::Cell<usize> = const { std::cell::Cell::new(MAX_SUGGESTIONS) };
+}
+
+/// Give a new load its full number of suggestions.
+pub fn reset_suggestions() {
+    SUGGESTIONS_LEFT.with(|left| left.set(MAX_SUGGESTIONS));
+}
+
+/// The closest candidate to a misspelt name, if one is close enough. Only
+/// candidates of similar length are compared (a close match cannot differ
+/// much in length), and at most [`MAX_SUGGESTIONS`] names per load are
+/// looked up, so a model with thousands of ids and many unknown names stays
+/// fast.
 pub fn did_you_mean<'a>(
     unknown: &str,
     candidates: impl IntoIterator<Item = &'a str>,
 ) -> Option<&'a str> {
+    let length = unknown.chars().count();
+    if length > MAX_SUGGESTED_LENGTH {
+        return None;
+    }
+    let budget_left = SUGGESTIONS_LEFT.with(|left| {
+        let n = left.get();
+        left.set(n.saturating_sub(1));
+        n > 0
+    });
+    if !budget_left {
+        return None;
+    }
+    let slack = length / 4 + 2;
     candidates
         .into_iter()
+        .filter(|c| c.len().abs_diff(unknown.len()) <= 4 * slack)
+        .filter(|c| c.chars().count().abs_diff(length) <= slack)
         .map(|c| (strsim::jaro_winkler(unknown, c), c))
         .filter(|(score, _)| *score > 0.8)
         .max_by(|a, b| a.0.total_cmp(&b.0))
@@ -346,5 +383,17 @@ mod tests {
             Some("equation")
         );
         assert_eq!(did_you_mean("zzz", ["id", "equation"]), None);
+        // Long names and far-off lengths are not compared at all.
+        let long = "x".repeat(MAX_SUGGESTED_LENGTH + 1);
+        assert_eq!(did_you_mean(&long, [long.as_str()]), None);
+        assert_eq!(did_you_mean("atp_c", ["atp_c_and_much_more"]), None);
+        assert_eq!(did_you_mean("atpc", ["atp_c"]), Some("atp_c"));
+        // The per-load budget: after it, no more lookups until a reset.
+        for _ in 0..MAX_SUGGESTIONS {
+            did_you_mean("x", ["y"]);
+        }
+        assert_eq!(did_you_mean("atpc", ["atp_c"]), None);
+        reset_suggestions();
+        assert_eq!(did_you_mean("atpc", ["atp_c"]), Some("atp_c"));
     }
 }

@@ -11,7 +11,18 @@ pub fn read_flux_csv(
     path: &Path,
     reaction_ids: &HashMap<String, usize>,
 ) -> Result<Vec<(usize, f64)>, Vec<Diagnostic>> {
-    let mut reader = open_table(path)?;
+    let bytes = super::read::read_bytes(path).map_err(|d| vec![d])?;
+    read_flux_bytes(path, bytes, reaction_ids)
+}
+
+/// [`read_flux_csv`] on the file's bytes (`path` names it in messages).
+pub fn read_flux_bytes(
+    path: &Path,
+    bytes: Vec<u8>,
+    reaction_ids: &HashMap<String, usize>,
+) -> Result<Vec<(usize, f64)>, Vec<Diagnostic>> {
+    let lines = line_starts(&bytes);
+    let mut reader = table_reader(path, bytes);
     let headers = match reader.headers() {
         Ok(h) => h.clone(),
         Err(e) => return Err(vec![csv_error(path, &e)]),
@@ -29,6 +40,9 @@ pub fn read_flux_csv(
     };
     let mut rows = Vec::new();
     let mut problems = Vec::new();
+    // Reaction index → line of its first row: a repeated row is an error,
+    // not a silent "last one wins".
+    let mut seen: HashMap<usize, usize> = HashMap::new();
     for record in reader.records() {
         let record = match record {
             Ok(r) => r,
@@ -37,7 +51,7 @@ pub fn read_flux_csv(
                 continue;
             }
         };
-        let line = record.position().map(|p| p.line() as usize).unwrap_or(0);
+        let line = line_of(&lines, &record);
         let id = record.get(rc).unwrap_or("");
         let flux_text = record.get(fc).unwrap_or("");
         let Some(&idx) = reaction_ids.get(id) else {
@@ -51,7 +65,21 @@ pub fn read_flux_csv(
             continue;
         };
         match units::parse(&RawQuantity::Text(flux_text.to_string()), Kind::Flux) {
-            Ok(v) => rows.push((idx, v)),
+            Ok(_) if seen.contains_key(&idx) => problems.push(
+                Diagnostic::new(
+                    path,
+                    format!(
+                        "reaction `{id}` has a second row (the first is on line {})",
+                        seen[&idx]
+                    ),
+                )
+                .at(line, 1)
+                .hint("give each reaction one row"),
+            ),
+            Ok(v) => {
+                seen.insert(idx, line);
+                rows.push((idx, v));
+            }
             Err(e) => {
                 problems.push(Diagnostic::new(path, format!("flux of `{id}`: {e}")).at(line, 1))
             }
@@ -64,9 +92,9 @@ pub fn read_flux_csv(
     }
 }
 
-/// A CSV reader (TSV when the extension says so) that skips `#` comments
-/// and trims cells.
-fn open_table(path: &Path) -> Result<csv::Reader<std::fs::File>, Vec<Diagnostic>> {
+/// A CSV reader over bytes already read (TSV when the file name ends in
+/// `.tsv`) that skips `#` comments and trims cells.
+fn table_reader(path: &Path, bytes: Vec<u8>) -> csv::Reader<std::io::Cursor<Vec<u8>>> {
     let tab = path
         .extension()
         .is_some_and(|e| e.eq_ignore_ascii_case("tsv"));
@@ -74,13 +102,48 @@ fn open_table(path: &Path) -> Result<csv::Reader<std::fs::File>, Vec<Diagnostic>
         .delimiter(if tab { b'\t' } else { b',' })
         .comment(Some(b'#'))
         .trim(csv::Trim::All)
-        .from_path(path)
-        .map_err(|e| {
-            vec![Diagnostic::new(
-                path,
-                format!("cannot read table: {}", io_text(&e)),
-            )]
-        })
+        .from_reader(std::io::Cursor::new(bytes))
+}
+
+/// Where lines start, and whether the csv reader skips them (`#` comments,
+/// empty lines). The reader's own line count and record offsets do not
+/// account for skipped lines, so a record's line is found from here.
+struct Lines {
+    starts: Vec<usize>,
+    skipped: Vec<bool>,
+}
+
+fn line_starts(bytes: &[u8]) -> Lines {
+    let starts: Vec<usize> = std::iter::once(0)
+        .chain(
+            bytes
+                .iter()
+                .enumerate()
+                .filter(|(_, b)| **b == b'\n')
+                .map(|(i, _)| i + 1),
+        )
+        .collect();
+    let skipped = starts
+        .iter()
+        .map(|&s| matches!(bytes.get(s), Some(b'#' | b'\n' | b'\r')))
+        .collect();
+    Lines { starts, skipped }
+}
+
+/// 1-based line of a record: the first line at or after the offset where
+/// the reader started it that is not skipped.
+fn line_of(lines: &Lines, record: &csv::StringRecord) -> usize {
+    let Some(p) = record.position() else {
+        return 0;
+    };
+    let mut index = lines
+        .starts
+        .partition_point(|&s| s <= p.byte() as usize)
+        .saturating_sub(1);
+    while lines.skipped.get(index) == Some(&true) {
+        index += 1;
+    }
+    index + 1
 }
 
 fn csv_error(path: &Path, e: &csv::Error) -> Diagnostic {
@@ -214,7 +277,19 @@ pub fn apply_side_table(
     model: &mut crate::model::Model,
     session: &mut TableSession,
 ) -> Result<(), Vec<Diagnostic>> {
-    let mut reader = open_table(path)?;
+    let bytes = super::read::read_bytes(path).map_err(|d| vec![d])?;
+    apply_side_table_bytes(path, bytes, model)
+}
+
+/// [`apply_side_table`] on the file's bytes (`path` names it in messages
+/// and decides CSV or TSV).
+pub fn apply_side_table_bytes(
+    path: &Path,
+    bytes: Vec<u8>,
+    model: &mut crate::model::Model,
+) -> Result<(), Vec<Diagnostic>> {
+    let lines = line_starts(&bytes);
+    let mut reader = table_reader(path, bytes);
     let headers: Vec<String> = match reader.headers() {
         Ok(h) => h.iter().map(|c| c.to_lowercase()).collect(),
         Err(e) => return Err(vec![csv_error(path, &e)]),
@@ -292,7 +367,7 @@ pub fn apply_side_table(
                 continue;
             }
         };
-        let line = record.position().map(|p| p.line() as usize).unwrap_or(0);
+        let line = line_of(&lines, &record);
         let cell = |name: &str| {
             column(name)
                 .and_then(|c| record.get(c))

@@ -193,20 +193,40 @@ pub fn settings_yaml(title: &str, model_file: &str) -> String {
     )
 }
 
-/// Write `model.yaml` and `gibbsite.yaml` into `dir` (created if needed).
-/// Existing files are replaced only after both were written completely.
+/// Write `model.yaml` and `gibbsite.yaml` into `dir` (created if needed);
+/// refuses when `dir` already holds either file.
 pub fn write_project(model: &Model, dir: &Path) -> Result<()> {
-    write_project_with_conditions(model, dir, &[])
+    write_project_with_conditions(model, dir, &[], false)
 }
 
 /// As [`write_project`], with compartment conditions written into
-/// `gibbsite.yaml` (`gibbsite import --conditions`).
+/// `gibbsite.yaml` (`gibbsite import --conditions`); with `force`, existing
+/// files are replaced (only after both new ones were written completely).
 pub fn write_project_with_conditions(
     model: &Model,
     dir: &Path,
     conditions: &[(usize, super::conditions::CompartmentConditions)],
+    force: bool,
 ) -> Result<()> {
-    std::fs::create_dir_all(dir).map_err(|e| Error::io(dir, e))?;
+    if !force {
+        let existing: Vec<&str> = ["model.yaml", super::SETTINGS_FILE]
+            .into_iter()
+            .filter(|name| std::fs::symlink_metadata(dir.join(name)).is_ok())
+            .collect();
+        if !existing.is_empty() {
+            return Err(Error::input(
+                crate::error::Diagnostic::new(
+                    dir,
+                    format!(
+                        "already holds {}; refusing to overwrite a project",
+                        existing.join(" and ")
+                    ),
+                )
+                .hint("pass --force to replace it, or choose another folder"),
+            ));
+        }
+    }
+    std::fs::create_dir_all(dir).map_err(|e| Error::output(dir, e))?;
     let mut settings = settings_yaml(&model.title, "model.yaml");
     if !conditions.is_empty() {
         settings.push_str(&super::conditions::to_yaml(model, conditions));
@@ -223,13 +243,13 @@ pub fn write_project_with_conditions(
                 let _ = std::fs::remove_file(t);
             }
             let _ = std::fs::remove_file(&tmp);
-            return Err(Error::io(&tmp, e));
+            return Err(Error::output(&tmp, e));
         }
         staged.push(tmp);
     }
     for ((name, _), tmp) in files.iter().zip(&staged) {
         let target = dir.join(name);
-        std::fs::rename(tmp, &target).map_err(|e| Error::io(&target, e))?;
+        std::fs::rename(tmp, &target).map_err(|e| Error::output(&target, e))?;
     }
     Ok(())
 }
@@ -325,9 +345,32 @@ impl Flow {
     }
 }
 
-/// A YAML double-quoted scalar (JSON string syntax is a subset of it).
+/// A YAML double-quoted scalar that reads back to exactly `s`: every
+/// character YAML does not allow as-is (C0 and C1 controls, DEL, U+FFFE/F)
+/// and those libyaml takes for line breaks (U+0085, U+2028, U+2029) or a
+/// byte-order mark (U+FEFF) is written as an escape.
 fn q(s: &str) -> String {
-    serde_json::to_string(s).expect("strings always serialise")
+    let mut out = String::with_capacity(s.len() + 2);
+    out.push('"');
+    for c in s.chars() {
+        match c {
+            '"' => out.push_str("\\\""),
+            '\\' => out.push_str("\\\\"),
+            '\n' => out.push_str("\\n"),
+            '\t' => out.push_str("\\t"),
+            '\r' => out.push_str("\\r"),
+            '\u{0}'..='\u{1f}'
+            | '\u{7f}'..='\u{9f}'
+            | '\u{2028}'
+            | '\u{2029}'
+            | '\u{feff}'
+            | '\u{fffe}'
+            | '\u{ffff}' => out.push_str(&format!("\\u{:04X}", c as u32)),
+            c => out.push(c),
+        }
+    }
+    out.push('"');
+    out
 }
 
 /// Shortest decimal that reads back to the same f64.

@@ -9,8 +9,13 @@ use std::path::Path;
 
 /// Read a `report.json` written by an earlier run.
 pub fn load(path: &Path) -> Result<Report> {
-    let text = std::fs::read_to_string(path)
-        .map_err(|e| Error::input(Diagnostic::new(path, format!("cannot read baseline: {e}"))))?;
+    // Bounded and regular files only, like every other input.
+    let text = crate::project::read::read_text(path).map_err(|d| {
+        Error::input(Diagnostic::new(
+            path,
+            format!("cannot read baseline: {}", d.message),
+        ))
+    })?;
     serde_json::from_str(&text).map_err(|e| {
         Error::input(
             Diagnostic::new(path, format!("not a gibbsite report.json: {e}"))

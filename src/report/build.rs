@@ -133,18 +133,38 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
     }
 }
 
+/// SOURCE_DATE_EPOCH as seconds: `Ok(None)` when unset or empty, an error
+/// naming the value when it is not a whole number of seconds between 1970
+/// and 9999 (a malformed value must not silently become "now").
+pub fn source_date_epoch() -> Result<Option<i64>, String> {
+    let Some(raw) = std::env::var_os("SOURCE_DATE_EPOCH") else {
+        return Ok(None);
+    };
+    let text = raw.to_string_lossy();
+    if text.trim().is_empty() {
+        return Ok(None);
+    }
+    text.trim()
+        .parse::<i64>()
+        .ok()
+        .filter(|s| (0..=253_402_300_799).contains(s))
+        .map(Some)
+        .ok_or_else(|| {
+            format!(
+                "SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01 UTC, found `{text}`"
+            )
+        })
+}
+
 /// RFC 3339 UTC time of the run; SOURCE_DATE_EPOCH (seconds) makes it fixed
 /// for reproducible builds.
 pub(crate) fn generated_timestamp() -> String {
-    let secs = std::env::var("SOURCE_DATE_EPOCH")
-        .ok()
-        .and_then(|s| s.trim().parse::<i64>().ok())
-        .unwrap_or_else(|| {
-            std::time::SystemTime::now()
-                .duration_since(std::time::UNIX_EPOCH)
-                .map(|d| d.as_secs() as i64)
-                .unwrap_or(0)
-        });
+    let secs = source_date_epoch().ok().flatten().unwrap_or_else(|| {
+        std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map(|d| d.as_secs() as i64)
+            .unwrap_or(0)
+    });
     time::OffsetDateTime::from_unix_timestamp(secs)
         .ok()
         .and_then(|t| {

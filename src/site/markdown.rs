@@ -2,11 +2,14 @@
 //!
 //! Notes are user text shown to reviewers, so nothing in them may run or
 //! load: raw HTML is turned into text (escaped), links with a scheme other
-//! than http, https or mailto lose their link (the text stays), and images
-//! with an absolute URL become plain links so opening a page never makes a
-//! network request.
+//! than http, https or mailto lose their link (the text stays), and only
+//! images with a plain relative path stay images: every other image
+//! (absolute URL, protocol-relative `//host/x.png`, `\\host`, a rooted
+//! path) becomes a plain link, so opening a page never makes a network
+//! request. URLs are judged the way a browser reads them: tabs and line
+//! breaks removed, leading control characters and spaces stripped.
 
-use pulldown_cmark::{html, CodeBlockKind, CowStr, Event, LinkType, Options, Parser, Tag, TagEnd};
+use pulldown_cmark::{html, CodeBlockKind, Event, LinkType, Options, Parser, Tag, TagEnd};
 
 /// What to do with the end event of an open link or image.
 enum Open {
@@ -52,7 +55,7 @@ pub fn to_html(markdown: &str) -> String {
             title,
             id,
         }) => {
-            if scheme(&dest_url).is_none() {
+            if is_plain_relative(&dest_url) {
                 open.push(Open::Keep);
                 Some(Event::Start(Tag::Image {
                     link_type,
@@ -85,8 +88,27 @@ pub fn to_html(markdown: &str) -> String {
     out
 }
 
+/// The URL as a browser's URL parser sees it: ASCII tab and line breaks
+/// removed anywhere, leading and trailing C0 controls and spaces stripped.
+fn as_browser_reads(url: &str) -> String {
+    url.chars()
+        .filter(|c| !matches!(c, '\t' | '\n' | '\r'))
+        .collect::<String>()
+        .trim_matches(|c: char| c <= ' ')
+        .to_string()
+}
+
+/// A path relative to the page, which loads from the site itself: no
+/// scheme, not rooted or protocol-relative (`/`, `//host`), no backslash
+/// (browsers read `\\` as `/`).
+fn is_plain_relative(url: &str) -> bool {
+    let url = as_browser_reads(url);
+    scheme(&url).is_none() && !url.starts_with('/') && !url.contains('\\')
+}
+
 /// The URL scheme (lower case), if the URL has one.
-fn scheme(url: &CowStr<'_>) -> Option<String> {
+fn scheme(url: &str) -> Option<String> {
+    let url = as_browser_reads(url);
     let (candidate, _) = url.split_once(':')?;
     let mut chars = candidate.chars();
     let first = chars.next()?;
@@ -95,7 +117,7 @@ fn scheme(url: &CowStr<'_>) -> Option<String> {
     valid.then(|| candidate.to_ascii_lowercase())
 }
 
-fn has_safe_scheme(url: &CowStr<'_>) -> bool {
+fn has_safe_scheme(url: &str) -> bool {
     match scheme(url) {
         None => true,
         Some(s) => matches!(s.as_str(), "http" | "https" | "mailto"),
@@ -137,5 +159,25 @@ mod tests {
             html.contains(r#"<a href="https://example.org/a.png">pic</a>"#),
             "{html}"
         );
+    }
+
+    #[test]
+    fn only_plain_relative_images_load() {
+        let html = to_html(
+            "![a](//host/a.png) ![b](\\\\host\\b.png) ![c](/etc/c.png) ![d](pics/d.png) ![e](<\u{1}//host/e.png>)",
+        );
+        assert_eq!(html.matches("<img").count(), 1, "{html}");
+        assert!(
+            html.contains(r#"<img src="pics/d.png" alt="d" />"#),
+            "{html}"
+        );
+        assert!(html.contains(r#"<a href="//host/a.png">a</a>"#), "{html}");
+        assert!(html.contains(">b</a>") && html.contains(">c</a>"), "{html}");
+    }
+
+    #[test]
+    fn schemes_are_read_as_a_browser_reads_them() {
+        let html = to_html("[x](<java\tscript:alert(1)>) [y](<\u{1}javascript:alert(1)>)");
+        assert!(!html.contains("<a"), "{html}");
     }
 }

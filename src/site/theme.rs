@@ -58,7 +58,10 @@ impl Theme {
         let mut user_files = BTreeMap::new();
         if let Some(dir) = user_dir {
             let mut user = BTreeMap::new();
-            read_dir_recursive(dir, "", &mut user)?;
+            // A theme is read inside its own folder: a symlink pointing out of
+            // it (to a key, a credentials file) is refused, as are devices.
+            let confinement = crate::project::read::Confinement::new(dir, &[]);
+            crate::project::read::confined(confinement, || read_dir_recursive(dir, "", &mut user))?;
             for (name, (path, bytes)) in user {
                 files.insert(name.clone(), Cow::Owned(bytes));
                 user_files.insert(name, path);
@@ -130,11 +133,19 @@ fn read_dir_recursive(
             continue;
         }
         let name = format!("{prefix}{file_name}");
-        let meta = fs::metadata(&path).map_err(|e| Error::io(&path, e))?;
+        // Folders are walked only when they are real folders (a symlinked
+        // folder could loop or lead to `/proc`); files are read through the
+        // confined, size-capped reader.
+        let meta = fs::symlink_metadata(&path).map_err(|e| Error::io(&path, e))?;
         if meta.is_dir() {
             read_dir_recursive(&path, &format!("{name}/"), out)?;
+        } else if meta.file_type().is_symlink() && path.is_dir() {
+            return Err(Error::input(crate::error::Diagnostic::new(
+                &path,
+                "a symlinked folder in the theme is not followed; copy the files into the theme",
+            )));
         } else {
-            let bytes = fs::read(&path).map_err(|e| Error::io(&path, e))?;
+            let bytes = crate::project::read::read_bytes(&path).map_err(Error::input)?;
             out.insert(name, (path, bytes));
         }
     }

@@ -32,8 +32,11 @@ pub fn drg0_from_k(k_prime: f64, temperature_k: f64) -> f64 {
 /// Σ νᵢ·xᵢ and its σ, treating the σᵢ as independent: √Σ (νᵢσᵢ)².
 pub fn weighted_sum(terms: &[(f64, f64, f64)]) -> (f64, f64) {
     let value = terms.iter().map(|(nu, x, _)| nu * x).sum();
-    let variance: f64 = terms.iter().map(|(nu, _, s)| (nu * s).powi(2)).sum();
-    (value, variance.sqrt())
+    // hypot: no overflow of the squares for extreme values.
+    let sigma = terms
+        .iter()
+        .fold(0.0f64, |acc, (nu, _, s)| acc.hypot(nu * s));
+    (value, sigma)
 }
 
 /// The ΔG' interval over every concentration inside the bounds: the lowest

@@ -44,10 +44,10 @@ pub use roles::{infer_role, is_extracellular, RoleClues};
 
 use crate::error::{Diagnostic, Error};
 use crate::model::{Compartment, Metabolite, Model, Reaction, Special, DEFAULT_FLUX_BOUND};
+use crate::project::read;
 use position::LineIndex;
 use roxmltree::Node;
 use std::collections::{BTreeMap, HashMap};
-use std::io::Read;
 use std::path::Path;
 
 /// pH of a compartment unless the project says otherwise.
@@ -64,9 +64,10 @@ const CORE_L3V1: &str = "http://www.sbml.org/sbml/level3/version1/core";
 const CORE_L3V2: &str = "http://www.sbml.org/sbml/level3/version2/core";
 const PACKAGE_PREFIX: &str = "http://www.sbml.org/sbml/level3/version1/";
 
-/// Reads an SBML file, gzipped or not (recognised by its content).
+/// Reads an SBML file, gzipped or not (recognised by its content); the file
+/// and its decompressed text are capped (see [`crate::project::read`]).
 pub fn read_sbml(path: &Path) -> Result<Model, Error> {
-    let bytes = std::fs::read(path).map_err(|e| Error::io(path, e))?;
+    let bytes = read::read_bytes(path).map_err(Error::input)?;
     let text = decode(bytes, path)?;
     parse_sbml(&text, path)
 }
@@ -83,6 +84,18 @@ pub fn parse_sbml(text: &str, file: &Path) -> Result<Model, Error> {
         problems: Vec::new(),
     };
     let model = reader.read(&document, file);
+    if model.as_ref().is_some_and(|m| m.reactions.is_empty()) {
+        // Nothing to check is not a pass.
+        let offset = document
+            .descendants()
+            .find(|n| n.has_tag_name("model"))
+            .map_or(0, |n| n.range().start);
+        reader.problems.push(Problem {
+            offset,
+            message: "the model defines no reactions".to_string(),
+            hint: Some("an SBML model lists its reactions in <listOfReactions>".to_string()),
+        });
+    }
     if reader.problems.is_empty() {
         if let Some(model) = model {
             return Ok(model);
@@ -105,45 +118,13 @@ pub fn parse_sbml(text: &str, file: &Path) -> Result<Model, Error> {
 }
 
 /// Gunzips when the bytes start with the gzip magic number, then checks UTF-8.
-fn decode(bytes: Vec<u8>, path: &Path) -> Result<String, Error> {
+pub fn decode(bytes: Vec<u8>, path: &Path) -> Result<String, Error> {
     let bytes = if bytes.starts_with(&[0x1f, 0x8b]) {
-        // The gzip trailer holds the uncompressed size (mod 2^32): reserve it
-        // once instead of growing the buffer by doubling.
-        let size_hint = bytes
-            .len()
-            .checked_sub(4)
-            .map(|at| u32::from_le_bytes(bytes[at..].try_into().unwrap_or([0; 4])) as usize)
-            .unwrap_or(0);
-        let mut out = Vec::with_capacity(size_hint.min(1 << 30) + 1);
-        flate2::read::MultiGzDecoder::new(&bytes[..])
-            .read_to_end(&mut out)
-            .map_err(|e| {
-                Error::input(Diagnostic::new(
-                    path,
-                    format!("cannot decompress the gzip data: {e}"),
-                ))
-            })?;
-        out
+        read::gunzip(&bytes, path).map_err(Error::input)?
     } else {
         bytes
     };
-    match String::from_utf8(bytes) {
-        Ok(mut text) => {
-            if text.starts_with('\u{feff}') {
-                text.drain(..3);
-            }
-            Ok(text)
-        }
-        Err(e) => {
-            let offset = e.utf8_error().valid_up_to();
-            let (line, column) = LineIndex::new(e.as_bytes()).locate(offset);
-            Err(Error::input(
-                Diagnostic::new(path, "the file is not valid UTF-8 text")
-                    .at(line, column)
-                    .hint("SBML files are UTF-8 encoded XML"),
-            ))
-        }
-    }
+    read::decode_utf8(bytes, path).map_err(Error::input)
 }
 
 fn xml_error(error: &roxmltree::Error, text: &str, file: &Path) -> Diagnostic {
@@ -531,11 +512,22 @@ impl Reader {
     fn charge(&mut self, node: Node, fbc: &str, id: &str) -> Option<i32> {
         let attribute = node.attribute_node((fbc, "charge"))?;
         let text = attribute.value().trim();
-        if let Ok(charge) = text.parse::<i32>() {
-            return Some(charge);
+        let charge = match text.parse::<i32>() {
+            Ok(charge) => Some(charge),
+            Err(_) => match parse_number(text) {
+                Some(v) if v.fract() == 0.0 && v.abs() < 1e6 => Some(v as i32),
+                _ => None,
+            },
+        };
+        if let Some(Err(message)) = charge.map(|z| crate::project::limits::charge(z.into())) {
+            self.problem(
+                attribute.range().start,
+                format!("species `{id}`: {message}"),
+            );
+            return None;
         }
-        match parse_number(text) {
-            Some(v) if v.fract() == 0.0 && v.abs() < 1e6 => Some(v as i32),
+        match charge {
+            Some(z) => Some(z),
             _ => {
                 self.problem(
                     attribute.range().start,
@@ -580,7 +572,18 @@ impl Reader {
                     let coefficient = match reference.attribute_node("stoichiometry") {
                         None => 1.0,
                         Some(s) => match parse_number(s.value()) {
-                            Some(v) if v.is_finite() && v >= 0.0 => v,
+                            Some(v) if v.is_finite() && v >= 0.0 => {
+                                if let Err(message) = crate::project::limits::coefficient(v) {
+                                    self.problem(
+                                        s.range().start,
+                                        format!(
+                                            "stoichiometry of `{species_id}` in reaction `{id}`: {message}"
+                                        ),
+                                    );
+                                    continue;
+                                }
+                                v
+                            }
                             Some(_) => {
                                 self.problem(
                                     s.range().start,
