@@ -245,7 +245,12 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 .map(|p| gibbsite::project::conditions::read_file(p, &model))
                 .transpose()?
                 .unwrap_or_default();
-            gibbsite::project::write::write_project_with_conditions(&model, &output, &conditions, force)?;
+            gibbsite::project::write::write_project_with_conditions(
+                &model,
+                &output,
+                &conditions,
+                force,
+            )?;
             eprintln!(
                 "{} reactions, {} metabolites, {} compartments written to {}",
                 model.reactions.len(),

@@ -119,7 +119,8 @@ fn import_writes_the_conditions_into_the_project() {
     .unwrap();
     let conditions = gibbsite::project::conditions::read_file(&file, &model).unwrap();
     let out = dir.path().join("project");
-    gibbsite::project::write::write_project_with_conditions(&model, &out, &conditions).unwrap();
+    gibbsite::project::write::write_project_with_conditions(&model, &out, &conditions, false)
+        .unwrap();
     let project = Project::load(&out).unwrap();
     let c = &project.model.compartments[0];
     assert_eq!((c.ph, c.potential_mv), (7.2, -160.0));

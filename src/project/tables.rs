@@ -278,7 +278,7 @@ pub fn apply_side_table(
     session: &mut TableSession,
 ) -> Result<(), Vec<Diagnostic>> {
     let bytes = super::read::read_bytes(path).map_err(|d| vec![d])?;
-    apply_side_table_bytes(path, bytes, model)
+    apply_side_table_bytes(path, bytes, model, session)
 }
 
 /// [`apply_side_table`] on the file's bytes (`path` names it in messages
@@ -287,6 +287,7 @@ pub fn apply_side_table_bytes(
     path: &Path,
     bytes: Vec<u8>,
     model: &mut crate::model::Model,
+    session: &mut TableSession,
 ) -> Result<(), Vec<Diagnostic>> {
     let lines = line_starts(&bytes);
     let mut reader = table_reader(path, bytes);

@@ -40,6 +40,6 @@ fuzz_target!(|data: &[u8]| {
         let _ = tables::read_flux_bytes(path, rest.to_vec(), &ids);
     } else {
         let mut m = model().clone();
-        let _ = tables::apply_side_table_bytes(path, rest.to_vec(), &mut m);
+        let _ = tables::apply_side_table_bytes(path, rest.to_vec(), &mut m, &mut tables::TableSession::default());
     }
 });
