@@ -48,6 +48,9 @@ pub struct Settings {
     pub loops: bool,
     /// Currency key → metabolite ids, overriding automatic recognition.
     pub currencies: std::collections::BTreeMap<String, Vec<String>>,
+    /// Metabolite ids the maps always draw as side labels / as nodes.
+    pub map_side: Vec<String>,
+    pub map_main: Vec<String>,
 }
 
 /// A Markdown note shown in the report.
@@ -110,6 +113,8 @@ impl Project {
                 min_driving_force_kj: DEFAULT_MIN_DRIVING_FORCE_KJ,
                 loops: true,
                 currencies: Default::default(),
+                map_side: Vec::new(),
+                map_main: Vec::new(),
             },
             model,
             notes: Vec::new(),
@@ -263,6 +268,8 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
                 .iter()
                 .map(|(k, v)| (k.clone(), v.0.clone()))
                 .collect(),
+            map_side: raw.maps.as_ref().map_or(Vec::new(), |m| m.side.clone()),
+            map_main: raw.maps.as_ref().map_or(Vec::new(), |m| m.main.clone()),
         },
         model,
         notes,
@@ -324,6 +331,25 @@ fn check_currency_ids(
                     Diagnostic::new(
                         settings_path,
                         format!("currency `{key}` names unknown metabolite `{id}`"),
+                    )
+                    .at_opt(map.nearest(&p).map(|l| l.pair())),
+                );
+            }
+        }
+    }
+    // Map overrides too.
+    let lists = raw
+        .maps
+        .iter()
+        .flat_map(|m| [("side", &m.side), ("main", &m.main)]);
+    for (list, ids) in lists {
+        for id in ids {
+            if model.metabolite_index(id).is_none() {
+                let p = vec![Segment::Key("maps".into()), Segment::Key(list.into())];
+                diagnostics.push(
+                    Diagnostic::new(
+                        settings_path,
+                        format!("`maps.{list}` names unknown metabolite `{id}`"),
                     )
                     .at_opt(map.nearest(&p).map(|l| l.pair())),
                 );

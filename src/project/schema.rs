@@ -148,6 +148,21 @@ pub struct RawSettings {
     /// Reaction id → role, overriding the model (and SBML inference).
     #[serde(default)]
     pub roles: BTreeMap<String, String>,
+    /// How the network maps draw metabolites.
+    pub maps: Option<RawMapSettings>,
+}
+
+/// `maps:` in `gibbsite.yaml`: metabolite ids overriding the automatic
+/// choice of side compounds (drawn as small labels on their reactions).
+#[derive(Debug, Clone, Default, serde::Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawMapSettings {
+    /// Always drawn as side labels.
+    #[serde(default)]
+    pub side: Vec<String>,
+    /// Always drawn as nodes, even when recognised as side compounds.
+    #[serde(default)]
+    pub main: Vec<String>,
 }
 
 /// A string or a list of strings.

@@ -33,8 +33,12 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "note.html",
     "loops.html",
     "loop.html",
+    "maps.html",
+    "map.html",
+    "map_section.html",
     "style.css",
     "table.js",
+    "map.js",
 ];
 
 /// The theme in use: file name (with `/` between folders) → content.
