@@ -557,7 +557,7 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
                 range_bar => bar.map(Value::from_safe_string),
                 breakdown => derived::breakdown(reaction),
                 network_map => map::pages::reaction_neighbourhood(&maps, &reaction.id)
-                    .map(Value::from_safe_string),
+                    .map(|d| Value::from_safe_string(d.svg)),
             },
         ));
     }
@@ -587,7 +587,7 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
                 }),
                 species_dfg_prime_kj => species.and_then(derived::reactant_dfg_prime_kj),
                 network_map => map::pages::metabolite_neighbourhood(&maps, &metabolite.id)
-                    .map(Value::from_safe_string),
+                    .map(|d| Value::from_safe_string(d.svg)),
             },
         ));
     }

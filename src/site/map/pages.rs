@@ -38,6 +38,9 @@ pub struct MapPage {
     pub contradictions: Vec<(String, String, usize)>,
     #[serde(skip)]
     pub svg: String,
+    /// Boxes and links of the drawing (for checks).
+    #[serde(skip)]
+    pub drawn: render::Drawn,
 }
 
 /// One row of the overview list.
@@ -57,6 +60,7 @@ pub struct GroupEntry {
 pub struct MapSite {
     pub groups: Vec<GroupEntry>,
     pub overview_svg: String,
+    pub overview: render::Drawn,
     pub pages: Vec<MapPage>,
     /// "group" or "compartment": what the maps are cut by.
     pub cut_by: &'static str,
@@ -255,7 +259,8 @@ pub fn group_maps(ctx: &MapContext<'_>) -> MapSite {
                 part_stems: part_stems.clone(),
                 reactions: part.len(),
                 contradictions: contradictions.clone(),
-                svg: drawn.svg,
+                svg: drawn.svg.clone(),
+                drawn,
             });
         }
         entries.push(GroupEntry {
@@ -279,10 +284,11 @@ pub fn group_maps(ctx: &MapContext<'_>) -> MapSite {
             warnings: e.warnings,
         })
         .collect();
-    let overview_svg = render::draw_overview("Overview map of the groups", &nodes, &links).svg;
+    let overview = render::draw_overview("Overview map of the groups", &nodes, &links);
     MapSite {
         groups: entries,
-        overview_svg,
+        overview_svg: overview.svg.clone(),
+        overview,
         pages,
         cut_by,
     }
@@ -336,7 +342,7 @@ pub fn group_links(
 /// The neighbourhood map of a reaction: reactions sharing a main
 /// metabolite with it (two steps out in the network of reactions and
 /// metabolites), nearest first, at most [`NEIGHBOURHOOD_REACTIONS`].
-pub fn reaction_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<String> {
+pub fn reaction_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<render::Drawn> {
     let (&key, _) = ctx.reactions.get_key_value(id)?;
     let reactions = ctx.near_reactions(&[key], NEIGHBOURHOOD_REACTIONS);
     let spec = MapSpec {
@@ -347,13 +353,13 @@ pub fn reaction_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<String> 
         elsewhere: BTreeMap::new(),
         root: "../",
     };
-    Some(render::draw(ctx, &spec).svg)
+    Some(render::draw(ctx, &spec))
 }
 
 /// The neighbourhood map of a metabolite: its reactions and their
 /// metabolites. `None` for side compounds (they are written on every
 /// reaction instead) and metabolites without reactions.
-pub fn metabolite_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<String> {
+pub fn metabolite_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<render::Drawn> {
     let (&key, list) = ctx.reactions_of.get_key_value(id)?;
     let mut reactions = list.clone();
     reactions.truncate(NEIGHBOURHOOD_REACTIONS);
@@ -365,5 +371,5 @@ pub fn metabolite_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<String
         elsewhere: BTreeMap::new(),
         root: "../",
     };
-    Some(render::draw(ctx, &spec).svg)
+    Some(render::draw(ctx, &spec))
 }

@@ -66,6 +66,28 @@ pub fn glyph(v: MapVerdict) -> &'static str {
     }
 }
 
+/// Every channel of a verdict's style in one place.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct MapVerdictStyle {
+    pub colour: &'static str,
+    /// `stroke-dasharray` (`none` = solid).
+    pub dash: &'static str,
+    pub width: f64,
+    pub glyph: &'static str,
+}
+
+impl MapVerdictStyle {
+    pub fn of(v: MapVerdict) -> MapVerdictStyle {
+        let (dash, width) = line_style(v);
+        MapVerdictStyle {
+            colour: colour(v),
+            dash,
+            width,
+            glyph: glyph(v),
+        }
+    }
+}
+
 /// Marks a member of an internal loop.
 pub const LOOP_GLYPH: &str = "↻";
 /// Colour of reactions without flux in a scenario.
