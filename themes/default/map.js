@@ -46,6 +46,8 @@
       box = home.slice();
       apply();
     });
+    // Says the map is interactive (the browser test looks for it).
+    svg.setAttribute("data-zoom", "ready");
   }
   document.addEventListener("DOMContentLoaded", function () {
     var maps = document.querySelectorAll("figure.net-map-figure svg.net-map");
