@@ -631,6 +631,12 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
                 item => Value::from_serialize(l),
                 findings => findings_of(index.loop_findings.get(l.id.as_str())),
                 cycle_map => map.as_ref().map(|m| Value::from_safe_string(m.svg.clone())),
+                network_map => {
+                    let members: Vec<&str> =
+                        l.members.iter().map(|m| m.reaction.as_str()).collect();
+                    map::reaction_set_map(&maps, &format!("Reactions of {}", l.id), &members, None)
+                        .map(Value::from_safe_string)
+                },
                 not_on_arrows => map.map(|m| m.not_on_arrows),
             },
         ));
