@@ -280,3 +280,46 @@ fn group_maps_are_cut_at_the_readable_size() {
         .links
         .contains(&"long-route.html".to_string()));
 }
+
+/// The demo project copied to `dir` with `extra` appended to its settings.
+fn demo_copy_with(dir: &Path, extra: &str) -> PathBuf {
+    let src = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
+    let dst = dir.join("lakeside");
+    std::fs::create_dir_all(dst.join("notes")).unwrap();
+    for name in ["model.yaml", "fluxes_dusk.csv"] {
+        std::fs::copy(src.join(name), dst.join(name)).unwrap();
+    }
+    for entry in std::fs::read_dir(src.join("notes")).unwrap() {
+        let entry = entry.unwrap();
+        std::fs::copy(entry.path(), dst.join("notes").join(entry.file_name())).unwrap();
+    }
+    let settings = std::fs::read_to_string(src.join("gibbsite.yaml")).unwrap() + extra;
+    std::fs::write(dst.join("gibbsite.yaml"), settings).unwrap();
+    dst
+}
+
+#[test]
+fn settings_override_the_side_compounds() {
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = demo_copy_with(tmp.path(), "maps:\n  side: [g6p_c]\n  main: [atp_c]\n");
+    let report = Project::load(&dir).expect("loads").analyse();
+    let ctx = MapContext::new(&report);
+    assert!(ctx.side.contains("g6p_c"));
+    assert!(!ctx.side.contains("atp_c"));
+    assert!(ctx.side.contains("adp_c"));
+
+    // Unknown metabolites and unknown keys are input errors.
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = demo_copy_with(tmp.path(), "maps:\n  side: [nope_c]\n");
+    let err = Project::load(&dir)
+        .err()
+        .expect("unknown id rejected")
+        .to_string();
+    assert!(
+        err.contains("`maps.side` names unknown metabolite `nope_c`"),
+        "{err}"
+    );
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = demo_copy_with(tmp.path(), "maps:\n  sides: [g6p_c]\n");
+    assert!(Project::load(&dir).is_err());
+}
