@@ -311,10 +311,10 @@ fn settings_override_the_side_compounds() {
     // Unknown metabolites and unknown keys are input errors.
     let tmp = tempfile::tempdir().unwrap();
     let dir = demo_copy_with(tmp.path(), "maps:\n  side: [nope_c]\n");
-    let err = Project::load(&dir)
-        .err()
-        .expect("unknown id rejected")
-        .to_string();
+    let Err(err) = Project::load(&dir) else {
+        panic!("unknown id accepted");
+    };
+    let err = err.to_string();
     assert!(
         err.contains("`maps.side` names unknown metabolite `nope_c`"),
         "{err}"
