@@ -278,14 +278,14 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
     // Drawing.
     let root = spec.root;
     let mut links = Vec::new();
+    // The arrows of one reaction share one link and one hover text.
     let mut edge_group = Group::new().set("class", "edges");
-    for (e, &(a, b, rid)) in edges.iter().enumerate() {
+    let mut e = 0;
+    while e < edges.len() {
+        let rid = edges[e].2;
         let r = ctx.reactions[rid];
         let (class, width) = match spec.overlay {
-            Overlay::Verdicts => {
-                let v = reaction_verdict(r);
-                (v.slug(), None)
-            }
+            Overlay::Verdicts => (reaction_verdict(r).slug(), None),
             Overlay::Scenario(_) => match scenario_flux(rid) {
                 Some((f, v)) => (
                     v.slug(),
@@ -294,21 +294,23 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
                 None => ("idle", None),
             },
         };
-        let d = edge_path(&placed.nodes[a], &placed.nodes[b], &placed.bends[e]);
-        let mut path = Path::new()
-            .set("class", format!("edge {}", verdict_class(class)))
-            .set("d", d)
-            .set("marker-end", format!("url(#nm-head-{class})"));
-        if let Some(w) = width {
-            path = path.set("style", format!("stroke-width:{:.2}", w));
+        let mut arrows = Group::new().add(Title::new(reaction_hover(ctx, rid, spec.overlay)));
+        while e < edges.len() && edges[e].2 == rid {
+            let (a, b, _) = edges[e];
+            let d = edge_path(&placed.nodes[a], &placed.nodes[b], &placed.bends[e]);
+            let mut path = Path::new()
+                .set("class", format!("edge {}", verdict_class(class)))
+                .set("d", d)
+                .set("marker-end", format!("url(#nm-head-{class})"));
+            if let Some(w) = width {
+                path = path.set("style", format!("stroke-width:{:.2}", w));
+            }
+            arrows = arrows.add(path);
+            e += 1;
         }
         let href = format!("{root}reactions/{}.html", r.slug);
         links.push(href.clone());
-        edge_group = edge_group.add(
-            Anchor::new()
-                .set("href", href)
-                .add(path.add(Title::new(reaction_hover(ctx, rid, spec.overlay)))),
-        );
+        edge_group = edge_group.add(Anchor::new().set("href", href).add(arrows));
     }
 
     let mut node_group = Group::new().set("class", "nodes");
