@@ -18,6 +18,7 @@ use crate::site::species_chart::shorten;
 use petgraph::graph::{DiGraph, NodeIndex};
 use std::collections::BTreeMap;
 use svg::node::element::{Anchor, Definitions, Group, Marker, Path, Rectangle, Style, Text, Title};
+use svg::node::Blob;
 use svg::Document;
 
 /// Rough advance of one character at the 12 px of the map; generous, so
@@ -454,13 +455,38 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
         )),
         _ => None,
     };
-    let (legend, legend_height, legend_width, legend_entries) = legend(spec.overlay, scenario_note);
+    let verdicts_only = matches!(spec.overlay, Overlay::Verdicts);
+    let (legend, legend_height, legend_width, legend_entries) = if verdicts_only {
+        let cached = fixed_parts();
+        (Group::new(), cached.2, cached.3, cached.4.clone())
+    } else {
+        legend(spec.overlay, scenario_note)
+    };
     let width = placed.width.max(legend_width);
     let top = MARGIN;
     let (w, h) = (
         round2(width + 2.0 * MARGIN),
         round2(placed.height + legend_height + 3.0 * MARGIN),
     );
+    // The stylesheet, markers and legend of a verdict map are the same on
+    // every map: written once per process and reused as text (building
+    // them node by node took a large share of the time per map).
+    let (head, legend_node): (Blob, Group) = if verdicts_only {
+        let cached = fixed_parts();
+        (
+            Blob::new(cached.0.as_str()),
+            Group::new().add(Blob::new(cached.1.as_str())),
+        )
+    } else {
+        (
+            Blob::new(format!(
+                "{}\n{}",
+                Style::new(stylesheet()),
+                defs(spec.overlay)
+            )),
+            legend,
+        )
+    };
     // Natural size: shown 1:1, shrunk (never blown up) to the page width.
     let doc = Document::new()
         .set("viewBox", (0, 0, w, h))
@@ -469,15 +495,14 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
         .set("class", "nm net-map")
         .set("role", "img")
         .add(Title::new(spec.title.clone()))
-        .add(Style::new(stylesheet()))
-        .add(defs(spec.overlay))
+        .add(head)
         .add(
             Group::new()
                 .set("transform", format!("translate({MARGIN},{top})"))
                 .add(edge_group)
                 .add(node_group),
         )
-        .add(legend.set(
+        .add(legend_node.set(
             "transform",
             format!(
                 "translate({MARGIN},{})",
@@ -490,6 +515,30 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
         links,
         legend: legend_entries,
     }
+}
+
+type FixedParts = (
+    String,
+    String,
+    f64,
+    f64,
+    Vec<(MapVerdict, &'static str, &'static str)>,
+);
+
+/// Stylesheet + markers, the legend, its height and width and entries, of
+/// verdict maps, as SVG text.
+fn fixed_parts() -> &'static FixedParts {
+    static PARTS: std::sync::OnceLock<FixedParts> = std::sync::OnceLock::new();
+    PARTS.get_or_init(|| {
+        let (group, height, width, entries) = legend(Overlay::Verdicts, None);
+        (
+            format!("{}\n{}", Style::new(stylesheet()), defs(Overlay::Verdicts)),
+            group.to_string(),
+            height,
+            width,
+            entries,
+        )
+    })
 }
 
 fn verdict_class(slug: &str) -> String {
