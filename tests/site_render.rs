@@ -584,6 +584,8 @@ fn fixture() -> Report {
                 max: 0.02,
             },
             caution: CAUTION.into(),
+            map_side: Vec::new(),
+            map_main: Vec::new(),
         },
         summary: Summary {
             reactions: 4,
@@ -741,6 +743,17 @@ fn all_expected_files_exist_and_nothing_else() {
         "report.json",
         "assets/style.css",
         "assets/table.js",
+        "assets/map.js",
+        // Network maps: the fixture's groups (ATPH in `energy`, HAT in
+        // `transport`, the rest without group), each also as SVG.
+        "maps/index.html",
+        "maps/index.svg",
+        "maps/energy.html",
+        "maps/energy.svg",
+        "maps/transport.html",
+        "maps/transport.svg",
+        "maps/no-group.html",
+        "maps/no-group.svg",
         "reactions/index.html",
         "reactions/ATPH.html",
         "reactions/UNK.html",
@@ -885,8 +898,8 @@ fn model_strings_are_escaped_everywhere() {
             !html.contains("<script>alert"),
             "{name} contains the note's script"
         );
-        // Our own script tag is the only one.
-        assert_eq!(html.matches("<script").count(), 1, "{name}");
+        // Our own script tags (tables, map zoom) are the only ones.
+        assert_eq!(html.matches("<script").count(), 2, "{name}");
         assert!(html.contains(CAUTION), "{name} lacks the caution");
     }
     for name in tree.keys() {
@@ -1019,9 +1032,10 @@ fn range_bar_places_zero_and_the_range() {
         x + width < zero && zero <= 592.0,
         "x={x} w={width} zero={zero}"
     );
-    // No range, no bar.
+    // No range, no bar (the page still has its network map).
     let unk = fs::read_to_string(out.join("reactions/UNK.html")).unwrap();
-    assert!(!unk.contains("<svg"));
+    assert!(!unk.contains("dg-bar"));
+    assert!(unk.contains("net-map"));
 }
 
 #[test]
@@ -1476,8 +1490,22 @@ fn svg_attributes_never_carry_model_strings() {
     for (name, html) in html_pages(&tree) {
         for block in html.split("<svg").skip(1) {
             let svg = format!("<svg{}", &block[..block.find("</svg>").unwrap()]);
-            charts += 1;
+            let network_map = svg.starts_with("<svg class=\"nm net-map\"");
+            charts += usize::from(!network_map);
             for (tag, attr, value) in svg_attributes(&svg) {
+                // Links of the network maps name pages: page names are
+                // sanitised slugs (checked below for their characters);
+                // the model string itself is never there.
+                if network_map && tag == "a" && attr == "href" {
+                    assert!(
+                        value
+                            .chars()
+                            .all(|c| c.is_ascii_alphanumeric() || "._-/".contains(c)),
+                        "{name}: <{tag} {attr}={value:?}>"
+                    );
+                    assert!(!value.contains("<") && !value.contains('"'));
+                    continue;
+                }
                 // Numbers, our own class names and fixed words only.
                 assert!(
                     value
@@ -1494,7 +1522,7 @@ fn svg_attributes_never_carry_model_strings() {
         }
     }
     // Range bars on 3 reaction pages, the one species chart and the cycle
-    // maps of the two loops.
+    // maps of the two loops (network maps not counted).
     assert_eq!(charts, 6);
 }
 

@@ -303,7 +303,10 @@ fn id_base<'a>(id: &'a str, compartment: &str) -> &'a str {
 }
 
 fn xref_matches(model: &Model, metabolite: usize, compound: &Compound) -> bool {
-    let xrefs = &model.metabolites[metabolite].xrefs;
+    xrefs_match(&model.metabolites[metabolite].xrefs, compound)
+}
+
+fn xrefs_match(xrefs: &BTreeMap<String, Vec<String>>, compound: &Compound) -> bool {
     let any = |namespaces: &[&str], wanted: &[&str], strip: &str| {
         namespaces.iter().any(|ns| {
             xrefs.get(*ns).is_some_and(|ids| {
@@ -319,6 +322,22 @@ fn xref_matches(model: &Model, metabolite: usize, compound: &Compound) -> bool {
         })
     };
     any(&["kegg.compound", "kegg"], compound.kegg, "") || any(&["chebi"], compound.chebi, "CHEBI:")
+}
+
+/// The currency compound key (`atp`, `h2o`, `nadh`, `coa`, …) a metabolite
+/// is recognised as, by its id base or its cross references (the automatic
+/// part of [`recognise`], for one metabolite; the network maps use it).
+pub fn compound_key(
+    id: &str,
+    compartment: &str,
+    xrefs: &BTreeMap<String, Vec<String>>,
+) -> Option<&'static str> {
+    let base = id_base(id, compartment_key(compartment));
+    COMPOUNDS
+        .iter()
+        .find(|c| c.key == base)
+        .or_else(|| COMPOUNDS.iter().find(|c| xrefs_match(xrefs, c)))
+        .map(|c| c.key)
 }
 
 /// Metabolite index per (compound key, compartment index).

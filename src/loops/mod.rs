@@ -20,7 +20,7 @@ mod prune;
 mod recheck;
 pub mod tolerance;
 
-pub use currency::{CurrencyOptions, DissipationTest};
+pub use currency::{compound_key, CurrencyOptions, DissipationTest};
 pub use egc::{energy_generating_cycles, EnergyCycleAnalysis, EnergyCycleResult};
 pub use elementary::{ElementaryLoop, LoopMember};
 pub use energy::{

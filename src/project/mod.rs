@@ -62,6 +62,9 @@ pub struct Settings {
     /// Metabolites and reactions whose energy a side table supplied.
     pub table_metabolites: std::collections::BTreeSet<usize>,
     pub table_reactions: std::collections::BTreeSet<usize>,
+    /// Metabolite ids the maps always draw as side labels / as nodes.
+    pub map_side: Vec<String>,
+    pub map_main: Vec<String>,
 }
 
 /// A Markdown note shown in the report.
@@ -161,6 +164,8 @@ impl Project {
                 condition_sources: Default::default(),
                 table_metabolites: Default::default(),
                 table_reactions: Default::default(),
+                map_side: Vec::new(),
+                map_main: Vec::new(),
             },
             model,
             notes: Vec::new(),
@@ -416,6 +421,8 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
             condition_sources,
             table_metabolites: session.metabolites_with_energy.clone(),
             table_reactions: session.reactions_with_energy.clone(),
+            map_side: raw.maps.as_ref().map_or(Vec::new(), |m| m.side.clone()),
+            map_main: raw.maps.as_ref().map_or(Vec::new(), |m| m.main.clone()),
         },
         model,
         notes,
@@ -488,6 +495,25 @@ fn check_currency_ids(
                     Diagnostic::new(
                         settings_path,
                         format!("currency `{key}` names unknown metabolite `{id}`"),
+                    )
+                    .at_opt(map.nearest(&p).map(|l| l.pair())),
+                );
+            }
+        }
+    }
+    // Map overrides too.
+    let lists = raw
+        .maps
+        .iter()
+        .flat_map(|m| [("side", &m.side), ("main", &m.main)]);
+    for (list, ids) in lists {
+        for id in ids {
+            if model.metabolite_index(id).is_none() {
+                let p = vec![Segment::Key("maps".into()), Segment::Key(list.into())];
+                diagnostics.push(
+                    Diagnostic::new(
+                        settings_path,
+                        format!("`maps.{list}` names unknown metabolite `{id}`"),
                     )
                     .at_opt(map.nearest(&p).map(|l| l.pair())),
                 );

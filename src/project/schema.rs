@@ -164,6 +164,21 @@ pub struct RawSettings {
     /// Compartment id → conditions, overriding the model's (SBML has none).
     #[serde(default)]
     pub compartments: BTreeMap<String, RawConditions>,
+    /// How the network maps draw metabolites.
+    pub maps: Option<RawMapSettings>,
+}
+
+/// `maps:` in `gibbsite.yaml`: metabolite ids overriding the automatic
+/// choice of side compounds (drawn as small labels on their reactions).
+#[derive(Debug, Clone, Default, serde::Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawMapSettings {
+    /// Always drawn as side labels.
+    #[serde(default)]
+    pub side: Vec<String>,
+    /// Always drawn as nodes, even when recognised as side compounds.
+    #[serde(default)]
+    pub main: Vec<String>,
 }
 
 /// Conditions of one compartment set in `gibbsite.yaml` or a conditions file.

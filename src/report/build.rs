@@ -89,6 +89,8 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
                 max: settings.default_concentration.max,
             },
             caution: CAUTION.into(),
+            map_side: settings.map_side.clone(),
+            map_main: settings.map_main.clone(),
         },
         summary,
         findings,

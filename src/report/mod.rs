@@ -284,6 +284,12 @@ pub struct ProjectInfo {
     pub default_concentration_m: RangeView,
     /// The standing caution printed on every report.
     pub caution: String,
+    /// Metabolite ids the network maps always draw as side labels / as
+    /// nodes (the project's `maps:` settings).
+    #[serde(default)]
+    pub map_side: Vec<String>,
+    #[serde(default)]
+    pub map_main: Vec<String>,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]

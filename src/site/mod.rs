@@ -19,12 +19,14 @@
 //! notes/index.html  notes/<slug>.html      (when the project has notes)
 //! loops/index.html  loops/<slug>.html      (the loop pages: one per loop)
 //! scenarios/<slug>.html                    (one per scenario judged as a whole)
+//! maps/index.html  maps/<group>.html (+ .svg) (network maps, see [`map`])
 //! ```
 
 pub mod coverage;
 pub mod derived;
 pub mod format;
 pub mod loop_map;
+pub mod map;
 pub mod markdown;
 pub mod scenario_svg;
 pub mod species_chart;
@@ -68,9 +70,14 @@ pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(
     for (name, bytes) in theme.assets() {
         staging.write(&format!("assets/{name}"), bytes)?;
     }
-    for page in pages(&sorted) {
+    let mut files = Vec::new();
+    for page in pages(&sorted, &mut files) {
         let html = render_page(&env, &theme, &page)?;
         staging.write(&page.path, html.as_bytes())?;
+    }
+    // Standalone copies of the maps (for papers and slides).
+    for (path, svg) in files {
+        staging.write(&path, svg.as_bytes())?;
     }
     staging.commit()
 }
@@ -456,8 +463,9 @@ fn energy_cycle_anchor(subject: &str) -> String {
     format!("cycle-{}", crate::slug::slug(subject))
 }
 
-/// Every page of the site with its context.
-fn pages(report: &Report) -> Vec<Page> {
+/// Every page of the site with its context; standalone files (the maps'
+/// `.svg` copies) go to `files` as (path, content).
+fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
     let report_value = Value::from_serialize(report);
     let index = site_index(report);
     let site_value = Value::from_serialize(&index);
@@ -530,6 +538,19 @@ fn pages(report: &Report) -> Vec<Page> {
             context! { missing_csv => coverage::MISSING_CSV },
         ),
     ];
+    let maps = map::MapContext::new(report);
+    out.extend(
+        map_pages(&maps, files)
+            .into_iter()
+            .map(|(path, title, extra)| {
+                let template = if path == "maps/index.html" {
+                    "maps.html"
+                } else {
+                    "map.html"
+                };
+                page(template, path, "maps", &title, extra)
+            }),
+    );
     let multiplier = report.project.sigma_multiplier;
     for reaction in &report.reactions {
         let bar = reaction.dg_range.map(|range| {
@@ -557,6 +578,8 @@ fn pages(report: &Report) -> Vec<Page> {
                 findings => findings_of(index.reaction_findings.get(reaction.id.as_str())),
                 range_bar => bar.map(Value::from_safe_string),
                 breakdown => derived::breakdown(reaction),
+                network_map => map::pages::reaction_neighbourhood(&maps, &reaction.id)
+                    .map(|d| Value::from_safe_string(d.svg)),
             },
         ));
     }
@@ -585,6 +608,8 @@ fn pages(report: &Report) -> Vec<Page> {
                         .collect::<Vec<_>>()
                 }),
                 species_dfg_prime_kj => species.and_then(derived::reactant_dfg_prime_kj),
+                network_map => map::pages::metabolite_neighbourhood(&maps, &metabolite.id)
+                    .map(|d| Value::from_safe_string(d.svg)),
             },
         ));
     }
@@ -628,6 +653,12 @@ fn pages(report: &Report) -> Vec<Page> {
                 item => Value::from_serialize(l),
                 findings => findings_of(index.loop_findings.get(l.id.as_str())),
                 cycle_map => map.as_ref().map(|m| Value::from_safe_string(m.svg.clone())),
+                network_map => {
+                    let members: Vec<&str> =
+                        l.members.iter().map(|m| m.reaction.as_str()).collect();
+                    map::reaction_set_map(&maps, &format!("Reactions of {}", l.id), &members, None)
+                        .map(Value::from_safe_string)
+                },
                 not_on_arrows => map.map(|m| m.not_on_arrows),
             },
         ));
@@ -663,4 +694,42 @@ fn scenario_page(
             profile_svg => profile.map(Value::from_safe_string),
         },
     )
+}
+
+/// The map pages (path, title, context) and their standalone `.svg` files.
+fn map_pages(
+    maps: &map::MapContext<'_>,
+    files: &mut Vec<(String, String)>,
+) -> Vec<(String, String, Value)> {
+    let site = map::pages::group_maps(maps);
+    files.push(("maps/index.svg".into(), site.overview_svg.clone()));
+    let mut out = vec![(
+        "maps/index.html".to_string(),
+        "Maps".to_string(),
+        context! {
+            groups => Value::from_serialize(&site.groups),
+            cut_by => site.cut_by,
+            map_svg => Value::from_safe_string(site.overview_svg),
+            readable_reactions => map::READABLE_REACTIONS,
+        },
+    )];
+    for p in site.pages {
+        files.push((format!("maps/{}.svg", p.stem), p.svg.clone()));
+        let title = if p.parts > 1 {
+            format!("{} ({} of {})", p.group, p.part, p.parts)
+        } else {
+            p.group.clone()
+        };
+        out.push((
+            format!("maps/{}.html", p.stem),
+            title,
+            context! {
+                item => Value::from_serialize(&p),
+                cut_by => site.cut_by,
+                map_svg => Value::from_safe_string(p.svg),
+                readable_reactions => map::READABLE_REACTIONS,
+            },
+        ));
+    }
+    out
 }

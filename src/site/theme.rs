@@ -36,8 +36,12 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "loop.html",
     "collection.html",
     "scenario.html",
+    "maps.html",
+    "map.html",
+    "map_section.html",
     "style.css",
     "table.js",
+    "map.js",
 ];
 
 /// The theme in use: file name (with `/` between folders) → content.

@@ -1,0 +1,325 @@
+//! Network maps of the demo report: same bytes every time, no overlapping
+//! boxes or labels, every link lands on a page, every legend entry shows
+//! its second channel, side compounds never become hubs.
+
+use gibbsite::report::Report;
+use gibbsite::site::map::render::{Drawn, MapVerdictStyle};
+use gibbsite::site::map::{pages, reaction_set_map, MapContext, MapVerdict, READABLE_REACTIONS};
+use gibbsite::Project;
+use std::collections::BTreeSet;
+use std::path::{Component, Path, PathBuf};
+
+fn demo_report() -> Report {
+    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
+    Project::load(&dir).expect("demo loads").analyse()
+}
+
+/// Every drawing of the demo: group maps, overview, neighbourhoods.
+fn all_drawings(report: &Report) -> Vec<(String, Drawn)> {
+    let ctx = MapContext::new(report);
+    let site = pages::group_maps(&ctx);
+    let mut out: Vec<(String, Drawn)> = site
+        .pages
+        .into_iter()
+        .map(|p| (format!("maps/{}", p.stem), p.drawn))
+        .collect();
+    out.push(("maps/index".into(), site.overview));
+    for r in &report.reactions {
+        if let Some(d) = pages::reaction_neighbourhood(&ctx, &r.id) {
+            out.push((format!("reactions/{}", r.slug), d));
+        }
+    }
+    for m in &report.metabolites {
+        if let Some(d) = pages::metabolite_neighbourhood(&ctx, &m.id) {
+            out.push((format!("metabolites/{}", m.slug), d));
+        }
+    }
+    out
+}
+
+#[test]
+fn layout_is_deterministic_to_the_byte() {
+    // Two analyses and two drawings: identical SVG.
+    let a = all_drawings(&demo_report());
+    let b = all_drawings(&demo_report());
+    assert_eq!(a.len(), b.len());
+    // 8 groups + overview + 28 reaction pages + metabolites with a map.
+    assert!(a.len() > 37, "{}", a.len());
+    for ((name_a, da), (name_b, db)) in a.iter().zip(&b) {
+        assert_eq!(name_a, name_b);
+        assert_eq!(da.svg, db.svg, "{name_a} differs between runs");
+    }
+}
+
+#[test]
+fn no_box_or_label_overlaps_on_the_demo_maps() {
+    let report = demo_report();
+    let mut boxes_checked = 0;
+    for (name, drawn) in all_drawings(&report) {
+        let nodes = &drawn.nodes;
+        for (i, a) in nodes.iter().enumerate() {
+            // Each label line lies inside its own box…
+            for &(x, y, w, h) in &a.labels {
+                assert!(
+                    x >= a.placed.left() - 1e-6
+                        && x + w <= a.placed.right() + 1e-6
+                        && y >= a.placed.top() - 1e-6
+                        && y + h <= a.placed.bottom() + 1e-6,
+                    "{name}: a label of {} leaves its box",
+                    a.id
+                );
+            }
+            // …so boxes apart means labels apart too.
+            for b in &nodes[i + 1..] {
+                assert!(
+                    !a.placed.overlaps(&b.placed),
+                    "{name}: {} and {} overlap: {:?} {:?}",
+                    a.id,
+                    b.id,
+                    a.placed,
+                    b.placed
+                );
+            }
+            boxes_checked += 1;
+        }
+    }
+    assert!(boxes_checked > 200, "{boxes_checked}");
+}
+
+#[test]
+fn side_compounds_are_labels_not_nodes() {
+    let report = demo_report();
+    let ctx = MapContext::new(&report);
+    for id in [
+        "h2o_c", "h_c", "atp_c", "adp_c", "nad_c", "nadh_c", "pi_c", "co2_c",
+    ] {
+        assert!(ctx.side.contains(id), "{id} should be a side compound");
+    }
+    // Pathway intermediates stay nodes.
+    for id in ["g6p_c", "pyr_c", "lac_c"] {
+        assert!(!ctx.side.contains(id), "{id} should be a node");
+    }
+    let glycolysis = pages::group_maps(&ctx)
+        .pages
+        .into_iter()
+        .find(|p| p.group == "glycolysis")
+        .expect("glycolysis map");
+    let ids: BTreeSet<&str> = glycolysis
+        .drawn
+        .nodes
+        .iter()
+        .map(|n| n.id.as_str())
+        .collect();
+    assert!(ids.contains("g6p_c") && ids.contains("HEX"));
+    assert!(!ids.contains("atp_c") && !ids.contains("h2o_c"));
+    // ATP is written on the hexokinase box instead.
+    assert!(glycolysis.svg.contains("atp_c → adp_c + h_c"));
+}
+
+/// `href` values of an SVG.
+fn hrefs(svg: &str) -> Vec<String> {
+    svg.split("href=\"")
+        .skip(1)
+        .map(|rest| rest[..rest.find('"').unwrap()].to_string())
+        .collect()
+}
+
+fn resolve(from: &Path, target: &str) -> PathBuf {
+    let mut parts: Vec<Component> = from.parent().unwrap().components().collect();
+    for c in Path::new(target).components() {
+        match c {
+            Component::ParentDir => {
+                parts.pop();
+            }
+            other => parts.push(other),
+        }
+    }
+    parts.iter().collect()
+}
+
+#[test]
+fn every_map_link_resolves_and_every_legend_shows_its_second_channel() {
+    let report = demo_report();
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    gibbsite::site::render(&report, None, &out).unwrap();
+    let mut files: Vec<PathBuf> = Vec::new();
+    for folder in ["maps", "reactions", "metabolites"] {
+        for entry in std::fs::read_dir(out.join(folder)).unwrap() {
+            files.push(entry.unwrap().path());
+        }
+    }
+    files.sort();
+    let mut links = 0;
+    let mut maps = 0;
+    for file in &files {
+        let text = std::fs::read_to_string(file).unwrap();
+        for block in text.split("<svg class=\"nm net-map\"").skip(1) {
+            let svg = &block[..block.find("</svg>").unwrap()];
+            maps += 1;
+            for target in hrefs(svg) {
+                let path = resolve(file, &target);
+                assert!(path.is_file(), "{}: {target} has no page", file.display());
+                links += 1;
+            }
+            let overview = file.ends_with("maps/index.html") || file.ends_with("maps/index.svg");
+            if overview {
+                continue;
+            }
+            for v in MapVerdict::ALL {
+                let style = MapVerdictStyle::of(v);
+                // Legend sample with the verdict's class, its glyph, and a
+                // stylesheet rule giving that class its line pattern.
+                assert!(
+                    svg.contains(&format!("class=\"edge nmv-{}\"", v.slug())),
+                    "{}: no legend line for {v:?}",
+                    file.display()
+                );
+                assert!(svg.contains(&format!(">\n{}\n</text>", style.glyph)));
+                assert!(svg.contains(&format!(
+                    "path.nmv-{}{{stroke:{};stroke-width:{};stroke-dasharray:{}}}",
+                    v.slug(),
+                    style.colour,
+                    style.width,
+                    style.dash
+                )));
+                assert!(svg.contains(v.words()));
+            }
+        }
+    }
+    // Group maps and overview as pages and files, and neighbourhoods.
+    assert!(maps >= 2 * 9 + 28, "{maps}");
+    assert!(links > 300, "{links}");
+}
+
+#[test]
+fn overview_reaches_a_contradiction_in_two_clicks() {
+    let report = demo_report();
+    let ctx = MapContext::new(&report);
+    let site = pages::group_maps(&ctx);
+    // PEPS is drawn as a contradiction (irreversible, ΔG' > 0 forward).
+    let gluconeogenesis = site
+        .pages
+        .iter()
+        .find(|p| p.group == "gluconeogenesis")
+        .unwrap();
+    assert!(gluconeogenesis
+        .contradictions
+        .iter()
+        .any(|(id, _, _)| id == "PEPS"));
+    // Click 1: the overview links to the group page; click 2: its map
+    // links to the reaction page.
+    assert!(site
+        .overview
+        .links
+        .contains(&format!("{}.html", gluconeogenesis.stem)));
+    assert!(gluconeogenesis
+        .drawn
+        .links
+        .contains(&"../reactions/PEPS.html".to_string()));
+    let group = site
+        .groups
+        .iter()
+        .find(|g| g.name == "gluconeogenesis")
+        .unwrap();
+    assert!(group.errors >= 1);
+}
+
+#[test]
+fn scenario_overlay_sets_arrow_width_by_flux() {
+    let report = demo_report();
+    let ctx = MapContext::new(&report);
+    // At dusk LDH runs backward (flux −2) and PEPS forward (+2), FBA at −1.
+    let svg = reaction_set_map(&ctx, "dusk set", &["LDH", "PEPS", "FBA"], Some("dusk"))
+        .expect("known reactions");
+    // Widest arrows (|flux| = 2): 1.5 + 4.5; FBA: 1.5 + 4.5 / 2.
+    assert!(svg.contains("stroke-width:6.00"), "{svg}");
+    assert!(svg.contains("stroke-width:3.75"), "{svg}");
+    assert!(svg.contains("arrow width ∝ |flux|"));
+    // Unknown ids only: no map.
+    assert!(reaction_set_map(&ctx, "none", &["nope"], None).is_none());
+}
+
+#[test]
+fn group_maps_are_cut_at_the_readable_size() {
+    // A chain of 70 reactions in one group: three parts of ≤ 30, linked.
+    let mut yaml = String::from(
+        "format: gibbsite-model/1\nid: chain\ncompartments:\n  - {id: c, name: cytosol}\nmetabolites:\n",
+    );
+    for i in 0..=70 {
+        yaml.push_str(&format!("  - {{id: m{i}_c, compartment: c}}\n"));
+    }
+    yaml.push_str("reactions:\n");
+    for i in 0..70 {
+        yaml.push_str(&format!(
+            "  - {{id: R{i:02}, equation: m{i}_c -> m{}_c, group: long route}}\n",
+            i + 1
+        ));
+    }
+    let tmp = tempfile::tempdir().unwrap();
+    let path = tmp.path().join("model.yaml");
+    std::fs::write(&path, yaml).unwrap();
+    let report = Project::load(&path).expect("model loads").analyse();
+    let ctx = MapContext::new(&report);
+    let site = pages::group_maps(&ctx);
+    let sizes: Vec<usize> = site.pages.iter().map(|p| p.reactions).collect();
+    assert_eq!(sizes, [24, 24, 22]);
+    assert!(sizes.iter().all(|&s| s <= READABLE_REACTIONS));
+    let stems: Vec<&str> = site.pages.iter().map(|p| p.stem.as_str()).collect();
+    assert_eq!(
+        stems,
+        ["long-route", "long-route-part-2", "long-route-part-3"]
+    );
+    // The metabolite where part 1 ends links on to part 2.
+    assert!(site.pages[0]
+        .drawn
+        .links
+        .contains(&"long-route-part-2.html".to_string()));
+    assert!(site.pages[1]
+        .drawn
+        .links
+        .contains(&"long-route.html".to_string()));
+}
+
+/// The demo project copied to `dir` with `extra` appended to its settings.
+fn demo_copy_with(dir: &Path, extra: &str) -> PathBuf {
+    let src = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
+    let dst = dir.join("lakeside");
+    std::fs::create_dir_all(dst.join("notes")).unwrap();
+    for name in ["model.yaml", "fluxes_dusk.csv"] {
+        std::fs::copy(src.join(name), dst.join(name)).unwrap();
+    }
+    for entry in std::fs::read_dir(src.join("notes")).unwrap() {
+        let entry = entry.unwrap();
+        std::fs::copy(entry.path(), dst.join("notes").join(entry.file_name())).unwrap();
+    }
+    let settings = std::fs::read_to_string(src.join("gibbsite.yaml")).unwrap() + extra;
+    std::fs::write(dst.join("gibbsite.yaml"), settings).unwrap();
+    dst
+}
+
+#[test]
+fn settings_override_the_side_compounds() {
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = demo_copy_with(tmp.path(), "maps:\n  side: [g6p_c]\n  main: [atp_c]\n");
+    let report = Project::load(&dir).expect("loads").analyse();
+    let ctx = MapContext::new(&report);
+    assert!(ctx.side.contains("g6p_c"));
+    assert!(!ctx.side.contains("atp_c"));
+    assert!(ctx.side.contains("adp_c"));
+
+    // Unknown metabolites and unknown keys are input errors.
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = demo_copy_with(tmp.path(), "maps:\n  side: [nope_c]\n");
+    let Err(err) = Project::load(&dir) else {
+        panic!("unknown id accepted");
+    };
+    let err = err.to_string();
+    assert!(
+        err.contains("`maps.side` names unknown metabolite `nope_c`"),
+        "{err}"
+    );
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = demo_copy_with(tmp.path(), "maps:\n  sides: [g6p_c]\n");
+    assert!(Project::load(&dir).is_err());
+}
