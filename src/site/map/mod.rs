@@ -80,6 +80,7 @@ impl MapVerdict {
             Verdict::Contradiction => MapVerdict::Contradiction,
             Verdict::Marginal => MapVerdict::Marginal,
             Verdict::Consistent => MapVerdict::Consistent,
+            Verdict::AtEquilibrium => MapVerdict::Equilibrium,
             Verdict::NoData => MapVerdict::NoData,
         }
     }
@@ -87,7 +88,7 @@ impl MapVerdict {
 
 /// The map style of a reaction from its verdicts on the directions its
 /// bounds allow: the best allowed direction counts (a reversible reaction
-/// contradicts only if both ways do); both ways marginal is "near
+/// contradicts only if both ways do); both ways marginal or at equilibrium is "near
 /// equilibrium".
 pub fn reaction_verdict(r: &ReactionView) -> MapVerdict {
     let allowed: Vec<Verdict> = [
@@ -101,7 +102,11 @@ pub fn reaction_verdict(r: &ReactionView) -> MapVerdict {
     if r.drg_prime.is_none() || allowed.is_empty() {
         return MapVerdict::NoData;
     }
-    if allowed.len() == 2 && allowed.iter().all(|v| *v == Verdict::Marginal) {
+    if allowed.len() == 2
+        && allowed
+            .iter()
+            .all(|v| matches!(v, Verdict::Marginal | Verdict::AtEquilibrium))
+    {
         return MapVerdict::Equilibrium;
     }
     // Verdict orders contradiction < marginal < consistent < no data.
@@ -295,6 +300,7 @@ mod tests {
                 source: String::new(),
             }),
             energy_origin: None,
+            xrefs: Default::default(),
             k_prime: None,
             dg_range: None,
             dg_measured: None,
