@@ -54,8 +54,13 @@ fn make_collection(dir: &Path) {
     copy_project(&dir.join("strain_b"), |name, text| {
         match name {
         "model.yaml" => replace(
-            replace(text, ldh, ldh_xref),
-            "  - {id: PEPS, name: PEP synthetase (as annotated), equation: pyr_c + atp_c -> pep_c + adp_c + h_c,\n     group: gluconeogenesis}\n",
+            replace(
+                replace(text, ldh, ldh_xref),
+                "  - {id: PEPS, name: PEP synthetase (as annotated), equation: pyr_c + atp_c -> pep_c + adp_c + h_c,\n     group: gluconeogenesis}\n",
+                "",
+            ),
+            // The flux of the `refit` scenario that names it.
+            "      PEPS: 2.0\n",
             "",
         ),
         "fluxes_dusk.csv" => replace(text, "PEPS,2.0\n", ""),
@@ -65,8 +70,9 @@ fn make_collection(dir: &Path) {
     copy_project(&dir.join("strain_c"), |name, text| match name {
         "model.yaml" => replace(
             replace(text, ldh, "{id: LDH_L, xrefs: {kegg.reaction: R00703},"),
-            "      LDH: 6.0",
-            "      LDH_L: 6.0",
+            // Every scenario flux of LDH (noon, bloom, refit).
+            "      LDH: ",
+            "      LDH_L: ",
         ),
         "fluxes_dusk.csv" => replace(text, "LDH,-2.0\n", ""),
         _ => text,
@@ -233,7 +239,9 @@ fn overview_table_comparison_and_escaping() {
     );
 
     // Rows in sorted order; the figures are those of the demo's report
-    // (tests/demo.rs): 28 reactions, 3 errors, loop {PYK, PEPS}.
+    // (tests/demo.rs): 32 reactions, 5 errors (PEPS alone, PEPS at dusk
+    // and in the refit, LDH at dusk, the pigment set in the bloom), loop
+    // {PYK, PEPS}.
     let rows = data["rows"].as_array().unwrap();
     let names: Vec<&str> = rows.iter().map(|r| r["name"].as_str().unwrap()).collect();
     assert_eq!(names, ["broken", "strain_a", "strain_b", "strain_c"]);
@@ -249,7 +257,7 @@ fn overview_table_comparison_and_escaping() {
     let a = &rows[1]["figures"];
     assert_eq!(
         (a["reactions"].as_u64(), a["errors"].as_u64()),
-        (Some(28), Some(3))
+        (Some(32), Some(5))
     );
     assert_eq!(
         (a["loop_capable"].as_u64(), a["elementary_loops"].as_u64()),
@@ -261,7 +269,7 @@ fn overview_table_comparison_and_escaping() {
     let b = &rows[2]["figures"];
     assert_eq!(
         (b["reactions"].as_u64(), b["loop_capable"].as_u64()),
-        (Some(27), Some(0))
+        (Some(31), Some(0))
     );
     assert_eq!(b["contradictions"], 1, "only LDH without PEPS");
     assert_eq!(
@@ -308,7 +316,7 @@ fn overview_table_comparison_and_escaping() {
     assert!(!html.contains("href=\"/") && !html.contains("href=\"http"));
     assert!(html.contains("data-sortable"));
     assert_eq!(html.matches("<svg").count(), 6, "six distribution charts");
-    assert!(html.contains("lowest 27 (strain_b), median 28, highest 28 (strain_a, strain_c)"));
+    assert!(html.contains("lowest 31 (strain_b), median 32, highest 32 (strain_a, strain_c)"));
     assert!(out.join("strain_a/index.html").is_file());
     assert!(!out.join("broken").exists());
 }

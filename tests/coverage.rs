@@ -8,25 +8,27 @@ fn demo() -> Project {
     Project::load(&Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside")).unwrap()
 }
 
-/// Hand count from projects/lakeside/model.yaml: 28 reactions, 6 of them
-/// boundary (EX_glc_e, EX_lac_e, EX_etoh_e, EX_co2_e, EX_h_e, DM_stor_c),
-/// so 22 internal; STOR lacks ΔfG'° of stor_c, so 21 have ΔrG'°.
+/// Hand count from projects/lakeside/model.yaml: 32 reactions, 7 of them
+/// boundary (EX_glc_e, EX_lac_e, EX_etoh_e, EX_co2_e, EX_h_e, DM_stor_c,
+/// DM_plcC_c), so 25 internal; STOR lacks ΔfG'° of stor_c, so 24 have ΔrG'°.
 /// By strongest source among the terms (model formation_energy > species >
 /// library):
 /// * library: GLCt (glc_e, glc_c both `library: glucose`) = 1;
 /// * species: LACt, ETOHt, CO2t (lactate, ethanol, CO2 species; H⁺ fixed) = 3;
 /// * model: HEX, PGI, PFK, FBP, FBA, TPI, GAPD, PGK, PGM, ENO, PYK, LDH,
-///   PDC, ADH, PEPS, ATPS, ATPM = 17.
+///   PDC, ADH, PEPS, ATPS, ATPM, and the pigment steps PLC1–PLC3 (their
+///   own `reaction_energy`) = 20.
 ///
-/// Compartments: every internal reaction touches c (22, 21 with ΔrG'°);
+/// Compartments: every internal reaction touches c (25, 24 with ΔrG'°);
 /// e is touched by the four transports and ATPS (h_e) = 5, all with ΔrG'°.
 /// Groups: glycolysis 10/10, transport 4/4, fermentation 3/3,
-/// gluconeogenesis 2/2 (FBP, PEPS), energy 1/1, upkeep 1/1, storage 0/1.
+/// gluconeogenesis 2/2 (FBP, PEPS), energy 1/1, upkeep 1/1, pigment 3/3,
+/// storage 0/1.
 #[test]
 fn demo_coverage_equals_the_hand_count() {
     let report = demo().analyse();
     let c = report.coverage.as_ref().unwrap();
-    assert_eq!((c.internal_reactions, c.with_energy), (22, 21));
+    assert_eq!((c.internal_reactions, c.with_energy), (25, 24));
     let by_source: Vec<(&str, usize)> = c
         .by_source
         .iter()
@@ -36,7 +38,7 @@ fn demo_coverage_equals_the_hand_count() {
         by_source,
         [
             ("side-table", 0),
-            ("model", 17),
+            ("model", 20),
             ("species", 3),
             ("library", 1),
             ("transport-rule", 0),
@@ -50,7 +52,7 @@ fn demo_coverage_equals_the_hand_count() {
     };
     assert_eq!(
         groups(&c.by_compartment),
-        [("c".to_string(), 21, 22), ("e".to_string(), 5, 5)]
+        [("c".to_string(), 24, 25), ("e".to_string(), 5, 5)]
     );
     let g = groups(&c.by_group);
     let expected = [
@@ -58,6 +60,7 @@ fn demo_coverage_equals_the_hand_count() {
         ("fermentation", 3, 3),
         ("gluconeogenesis", 2, 2),
         ("glycolysis", 10, 10),
+        ("pigment", 3, 3),
         ("storage", 0, 1),
         ("transport", 4, 4),
         ("upkeep", 1, 1),
@@ -109,6 +112,6 @@ fn the_export_reads_back_as_a_side_table() {
     let mut again = demo();
     again.add_tables(&[filled]).unwrap();
     let c = again.analyse().coverage.unwrap();
-    assert_eq!((c.with_energy, c.missing.len()), (22, 0));
+    assert_eq!((c.with_energy, c.missing.len()), (25, 0));
     assert_eq!(c.by_source[0].reactions, 1, "STOR counts under side table");
 }

@@ -234,6 +234,7 @@ compartments: [{id: c, ph: 6}]
 metabolites:
   - {id: pi_c, compartment: c, library: phosphate,
      formation_energy: {value: -1059.49, sigma: 0.3, source: 'given at pH 7', at: {ph: 7, ionic_strength: 0.25 M}}}
+reactions: [{id: DM_pi, equation: pi_c ->, role: demand}]
 ",
     );
     let pi = &report.metabolites[0];
@@ -416,7 +417,7 @@ compartments:
 metabolites:
   - {id: glc_hot, compartment: hot, library: glucose}
   - {id: x_mild, compartment: mild, formation_energy: {value: -10}}
-reactions: []
+reactions: [{id: DM_x, equation: x_mild ->, role: demand}]
 ",
     );
     let warnings: Vec<_> = report

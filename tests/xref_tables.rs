@@ -24,7 +24,8 @@ compartments:
 metabolites:
   - {id: \"glucose[cyt]\", compartment: cyt, xrefs: {chebi: \"4167\", kegg.compound: C00031}}
   - {id: \"urea[cyt]\", compartment: cyt, xrefs: {kegg.compound: c00086}}
-reactions: []
+reactions:
+  - {id: GLCUREA, equation: \"glucose[cyt] <-> urea[cyt]\"}
 ";
 
 /// Species data at I = 0 for two compounds, keyed by ChEBI and by KEGG.

@@ -89,17 +89,20 @@ pub fn soften(analysis: &Analysis, findings: &mut [Finding]) {
         .map(|(j, r)| (r.id.as_str(), j))
         .collect();
     for f in findings.iter_mut() {
-        if !DIRECTION_KINDS.contains(&f.kind.as_str()) {
-            continue;
-        }
-        let Some(j) = f
-            .subjects
-            .first()
-            .and_then(|id| index.get(id.as_str()).copied())
-        else {
+        // A joint verdict rests on every member of its set; a per-step one
+        // on its reaction.
+        let members: &[String] = if f.kind == "scenario-infeasible" {
+            &f.subjects
+        } else if DIRECTION_KINDS.contains(&f.kind.as_str()) {
+            &f.subjects[..f.subjects.len().min(1)]
+        } else {
             continue;
         };
-        if depends_on_unset_conditions(analysis, j) {
+        let depends = members
+            .iter()
+            .filter_map(|id| index.get(id.as_str()).copied())
+            .any(|j| depends_on_unset_conditions(analysis, j));
+        if depends {
             f.severity = Severity::Note;
             f.message = format!("{} ({DEPENDS_ON_UNSET})", f.message);
         }

@@ -50,29 +50,48 @@ fn joint_findings(analysis: &Analysis, s: &ScenarioResult, out: &mut Vec<Finding
                     .iter()
                     .map(|&k| s.problem.steps[k].reaction)
                     .collect();
-                // A single step that is a contradiction on its own is already
-                // reported by the per-step checks.
+                // A single step that is not consistent on its own is already
+                // reported by the per-step checks (contradiction, marginal or
+                // at equilibrium), with the severity those verdicts carry.
                 if let [only] = set.steps[..] {
                     let step = &s.problem.steps[only];
-                    if analysis.verdict(step.reaction, step.direction) == Verdict::Contradiction {
+                    if analysis.verdict(step.reaction, step.direction) != Verdict::Consistent {
                         continue;
                     }
                 }
+                // Impossible together (best overall ΔG' above zero even with
+                // the allowances) is an error; able to run together only with
+                // less than the minimum driving force is a warning, as the
+                // per-step "marginal" is.
+                let impossible = set.overall_kj > crate::scenarios::tolerance::SUBSTITUTION_KJ;
                 let names: Vec<String> = reactions
                     .iter()
                     .map(|&j| reaction_id(analysis, j))
                     .collect();
                 out.push(Finding {
                     kind: "scenario-infeasible".into(),
-                    severity: Severity::Error,
+                    severity: if impossible {
+                        Severity::Error
+                    } else {
+                        Severity::Warning
+                    },
                     subjects: names.clone(),
                     scenario: Some(s.id.clone()),
-                    message: format!(
-                        "{} cannot all run at once in their flux directions: together their best ΔG' is {} (needs at most {}), though each may be possible alone",
-                        names.join(", "),
-                        signed_kj(set.overall_kj),
-                        kj(set.required_kj)
-                    ),
+                    message: if impossible {
+                        format!(
+                            "{} cannot all run at once in their flux directions: together their best ΔG' is {} (needs at most {}), though each may be possible alone",
+                            names.join(", "),
+                            signed_kj(set.overall_kj),
+                            kj(set.required_kj)
+                        )
+                    } else {
+                        format!(
+                            "{} can run at once in their flux directions only with less than the minimum driving force: together their best ΔG' is {} (needs at most {})",
+                            names.join(", "),
+                            signed_kj(set.overall_kj),
+                            kj(set.required_kj)
+                        )
+                    },
                     evidence: evidence(&[
                         ("overall_dg", set.overall_kj),
                         ("required_dg", set.required_kj),
