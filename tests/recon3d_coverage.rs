@@ -21,7 +21,12 @@ fn analyse(conditions: bool) -> Option<Report> {
         settings.push_str(&std::fs::read_to_string(file).unwrap());
     }
     std::fs::write(dir.path().join("gibbsite.yaml"), settings).unwrap();
-    Some(Project::load(dir.path()).unwrap().analyse())
+    // The model lives outside the temporary project: allow its folder, as
+    // `--allow-dir` does on the command line.
+    let options = gibbsite::project::LoadOptions {
+        allowed_dirs: vec![model.parent().unwrap().to_path_buf()],
+    };
+    Some(Project::load_with(dir.path(), &options).unwrap().analyse())
 }
 
 fn transport_rule_count(report: &Report) -> usize {
