@@ -112,6 +112,8 @@ fn import_writes_the_conditions_into_the_project() {
     )
     .unwrap();
     let file = dir.path().join("conditions.yaml");
+    // pH 7.2 / −160 mV: typical cytosol values (common practice); e pH 7.4
+    // invented for this test.
     std::fs::write(
         &file,
         "compartments:\n  c: {ph: 7.2, potential: -160 mV, source: \"common practice\"}\n  e: {ph: 7.4}\n",

@@ -125,6 +125,8 @@ fn demo_scenarios_judged_as_a_whole() {
     let set = &bloom.conflicts[0];
     let ids: Vec<&str> = set.members.iter().map(|m| m.reaction.as_str()).collect();
     assert_eq!(ids, ["PLC1", "PLC2", "PLC3"]);
+    // R: CODATA 2018 (constants.csv); 1.959964: two-sided 95 % normal
+    // quantile (common practice); 27 and σ 0.8: demo values.
     let rt = 8.314_462_618e-3 * 298.15;
     let expected = 27.0 + rt * (1e-6f64 / 5e-3).ln() - 3.0 * 1.959964 * 0.8;
     assert!((expected - 1.18).abs() < 0.005, "{expected}");
@@ -162,6 +164,7 @@ fn demo_scenarios_judged_as_a_whole() {
     let noon = joint("noon");
     assert_eq!(noon.verdict, "feasible");
     let mdf = noon.mdf.as_ref().unwrap();
+    // Bounds 1–3 kJ/mol: a loose check, not worked out by hand.
     assert!(
         mdf.value_kj >= 1.0 && mdf.value_kj < 3.0,
         "{}",
@@ -213,6 +216,7 @@ fn demo_numbers_match_hand_calculation() {
     let e = peps.drg_prime.as_ref().unwrap();
     assert!((e.value_kj - 31.40).abs() < 1e-9, "{}", e.value_kj);
     assert!((e.sigma_kj - 1.5f64.sqrt()).abs() < 1e-12);
+    // R: CODATA 2018 (constants.csv).
     let rt = 8.314_462_618e-3 * 298.15;
     let expected_min = 31.40 + rt * (4e-5f64).ln();
     let range = peps.dg_range.unwrap();
@@ -358,6 +362,7 @@ fn membrane_potential_decides_the_atp_synthase_verdict() {
     let atps = report.reactions.iter().find(|r| r.id == "ATPS").unwrap();
     let t = atps.transport.as_ref().unwrap();
     assert!((t.formation_sum_kj - 36.03).abs() < 1e-9);
+    // F and R: CODATA 2018 (constants.csv); 36.03: demo value.
     assert!((t.electrical_term_kj + 4.0 * 96.485_332_12 * 0.200).abs() < 1e-6);
     let rt_ln10 = 8.314_462_618e-3 * 298.15 * std::f64::consts::LN_10;
     // Debye–Hückel part of μ(H+): RTα·√I/(1 + 1.6√I) at I = 0.25 and 0.1 M (Alberty 2003, RTα = 2.91482).

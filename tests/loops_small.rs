@@ -375,10 +375,12 @@ fn inconsistent_cycle_energy_from_mixed_temperatures() {
             }),
         ]
     };
+    // 1.96: two-sided 95 % normal quantile (common practice).
     let options = LoopEnergyOptions {
         confidence: 1.96,
         recheck_limit: None,
     };
+    // σ = 0.1 and 0.5 below: invented for this test.
     // σ = 0.1 each: k·σ_sum = 1.96·0.1414 = 0.277 < 0.6499 → inconsistent.
     let energies = assess_loop_energies(&m, &a, &data(0.1), &[], &options).unwrap();
     let e = &energies[0];
@@ -395,6 +397,7 @@ fn inconsistent_cycle_energy_from_mixed_temperatures() {
     // member running ATP synthesis (backward) has ΔG'_min > 0 and is named;
     // forbidding that direction leaves the other orientation only, so the
     // loop as listed no longer runs.
+    // R: CODATA 2018 (constants.csv).
     let span = 8.314462618e-3 * 298.15 * (1e6f64).ln();
     let ranges = vec![
         Some(DeltaGRange {
@@ -444,7 +447,7 @@ fn constraint_recheck_reports_remaining_loops() {
     let ranges: Vec<Option<DeltaGRange>> = (0..3)
         .map(|r| {
             // Only the first loop's backward member gets a range that
-            // makes it stand out.
+            // makes it stand out (ranges invented for this test).
             let backward = first
                 .members
                 .iter()
@@ -462,6 +465,7 @@ fn constraint_recheck_reports_remaining_loops() {
             })
         })
         .collect();
+    // 1.96: two-sided 95 % normal quantile (common practice).
     let options = LoopEnergyOptions {
         confidence: 1.96,
         recheck_limit: None,

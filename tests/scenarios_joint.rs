@@ -80,7 +80,9 @@ const CHAIN_SETTINGS: &str =
 /// Each step alone: best ΔG' = 10 + RT·ln(1e-6/1e-2) = 10 − 22.83 =
 /// −12.83 kJ/mol (RT·ln 10⁴ = 2.478957 × 9.210340 = 22.832 kJ/mol), so each is
 /// "consistent" alone. Together: Σ ΔG' = 30 + RT·ln([e]/[a]) ≥ 30 − 22.832
-/// = +7.168 kJ/mol > 0, so the three cannot run at once.
+/// = +7.168 kJ/mol > 0, so the three cannot run at once. ΔrG'° values
+/// invented for this test; [1 µM, 10 mM] is the common practice default
+/// range; the rest is arithmetic.
 #[test]
 fn chain_feasible_step_by_step_is_jointly_infeasible() {
     let (_dir, project) = project(CHAIN, CHAIN_SETTINGS);
@@ -200,7 +202,7 @@ fn project_with_text(model: &str) -> (tempfile::TempDir, Project) {
 /// so B = (6 + 22.832)/2 = 14.416 kJ/mol, at a = 10 mM, c = 1 µM and
 /// ln(b/a) = (5 − 14.416)/RT = −3.798 → b = 0.224 mM (inside its range).
 /// Both steps bind with dual value ½ (each kJ/mol gained on either step
-/// raises B by half of it).
+/// raises B by half of it). ΔrG'° values invented for this test.
 #[test]
 fn max_min_driving_force_of_a_small_pathway() {
     let model = "id: mdf
@@ -251,7 +253,8 @@ reactions:
 /// ΔG' = 1 − 3 − ε = −2 − ε. Both negative needs ε < −3 and ε > −2: no single
 /// value, though each step alone is fine within k·σ = 1.96 × 2 = 3.92 (a → b
 /// with ε = −3.5, b → c with ε = −1). Two independent copies of ε would make it
-/// feasible; one shared variable makes it infeasible.
+/// feasible; one shared variable makes it infeasible. ΔfG'° and σ values
+/// invented for this test; 1.96: 95 % normal quantile (common practice).
 #[test]
 fn a_shared_formation_error_takes_one_value() {
     let model = "id: shared
@@ -269,6 +272,7 @@ reactions:
         "default_concentration: {min: 1 mM, max: 1 mM}\nmin_driving_force: 0 kJ/mol\n",
     );
     let analysis = Analysis::new(&project.model, &project.settings);
+    // Two-sided 95 % normal quantile (common practice; digits from memory).
     assert!((analysis.sigma_multiplier - 1.959964).abs() < 1e-6);
     for j in 0..2 {
         assert_ne!(

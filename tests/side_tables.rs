@@ -26,6 +26,7 @@ fn project_with(tables: &[(&str, &str)]) -> (tempfile::TempDir, gibbsite::Result
 #[test]
 fn formation_energies_concentrations_and_species_from_tables() {
     let (_dir, project) = project_with(&[
+        // Energy, σ and concentrations of a: invented for this test.
         (
             "metabolites.csv",
             "metabolite,dfg,sigma,source,min,max,measured\na,-10 kJ/mol,1.5,lab,1 mM,5 mM,2 mM\n",

@@ -119,7 +119,8 @@ reactions:
     // Each step alone keeps its own σ: √0.5 for R1, R2; 0.5 for R3.
     assert!((reaction_sigma(&report, "R1") - 0.5f64.sqrt()).abs() < 1e-12);
     assert!((reaction_sigma(&report, "R3") - 0.5).abs() < 1e-12);
-    // The independent rule, for comparison: √1.25 = 1.118 > 1.9 / 1.96.
+    // The independent rule, for comparison: √1.25 = 1.118 > 1.9 / 1.96
+    // (1.959964: two-sided 95 % normal quantile, common practice).
     let independent = (0.5f64 + 0.5 + 0.25).sqrt();
     assert!((independent - 1.118).abs() < 0.001);
     assert!(1.9 < 1.959_964 * independent);
@@ -226,6 +227,9 @@ fn a_value_stated_at_another_temperature_is_not_used() {
 /// With species data the move is exact: the library's phosphate
 /// (HPO4²⁻/H2PO4⁻, Alberty 2003 species) moved from pH 7 to pH 6 shifts by
 /// the difference of its two transforms, not by a whole number of H.
+/// The stated −1059.49 kJ/mol is the demo's phosphate value (marked 'demo
+/// value' there; origin not recorded, so treat it as invented): any value
+/// would do, the test checks only the shift.
 #[test]
 fn species_data_make_the_move_exact() {
     let report = analyse(
@@ -286,6 +290,7 @@ reactions:
 /// 2.71 (Table 1.2, p. 7) with ΔfG°(Mg²⁺) = −455.3 (from memory; it cancels).
 #[test]
 fn free_magnesium_is_fixed_by_pmg() {
+    // R used by Alberty 2003 (printed p. 222; constants.csv).
     let rt_ln10_book = 8.31451e-3 * 298.15 * std::f64::consts::LN_10;
     let mghpo4 = -455.3 - 1096.1 - rt_ln10_book * 2.71;
     let report = analyse(&format!(
@@ -309,7 +314,7 @@ reactions:
     // CODATA R instead of the book's moves the result by < 0.005 kJ/mol.
     assert!((drg - (-1058.57 - -1050.44)).abs() < 0.01, "{drg}");
     // Mg²⁺ is left out of Q: the ΔG' range spans the two other metabolites'
-    // default ranges (1 µM – 10 mM, four decades each) only.
+    // default ranges (1 µM – 10 mM, four decades each) only. R: CODATA 2018.
     let rt = 8.314_462_618_153_24e-3 * 298.15;
     let range = r.dg_range.unwrap();
     assert!(

@@ -3,6 +3,8 @@
 
 use gibbsite::Project;
 
+// Compartment conditions invented for this test (bacterial-like pH and
+// membrane potential); lactate C3H5O3⁻, z −1: from its formula.
 const MODEL: &str = "id: t
 compartments:
   - {id: e, ph: 7.0, ionic_strength: 0.25 M, potential: 0 mV}

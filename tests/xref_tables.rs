@@ -91,6 +91,8 @@ fn one_table_serves_two_models_transformed_per_compartment() {
     assert!((urea_a + 39.74).abs() < 0.02, "{urea_a}");
     // Transformed per compartment (Alberty's transform, one species):
     // ΔfG'° = ΔfG° + nH·RT·ln10·pH − RTα·(z² − nH)·√I/(1 + 1.6√I).
+    // R: CODATA 2018; RTα = 2.91482 and B = 1.6: Alberty 2003, Problem 3.1,
+    // printed p. 260 (constants.csv).
     let rt_ln10 = 8.314462618e-3 * 298.15 * std::f64::consts::LN_10;
     let dh = |i: f64| 2.91482 * i.sqrt() / (1.0 + 1.6 * i.sqrt());
     let expected = |g0: f64, nh: f64, ph: f64, i: f64| g0 + nh * rt_ln10 * ph + nh * dh(i);

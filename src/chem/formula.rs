@@ -314,7 +314,8 @@ mod tests {
         // Calcium nitrate Ca(NO3)2 = CaN2O6 (common practice).
         let f = parse_formula("Ca(NO3)2").unwrap();
         assert_eq!(atoms(&f), vec![("Ca", 1), ("N", 2), ("O", 6)]);
-        // Nested brackets: K4[Fe(CN)6] (potassium ferrocyanide) = C6FeK4N6.
+        // Nested brackets: K4[Fe(CN)6] (potassium ferrocyanide) = C6FeK4N6
+        // (common practice).
         let f = parse_formula("K4[Fe(CN)6]").unwrap();
         assert_eq!(atoms(&f), vec![("C", 6), ("Fe", 1), ("K", 4), ("N", 6)]);
     }

@@ -518,8 +518,8 @@ mod tests {
     use super::*;
     use crate::thermo::constants::{rt, T_STANDARD_K};
 
-    /// a → b → c with ΔrG'° −5 and −1 kJ/mol (σ 0), every concentration in
-    /// [1 µM, 10 mM]. Hand MDF: adding the two rows, −6 + RT·ln(c/a) ≤ −2B;
+    /// a → b → c with ΔrG'° −5 and −1 kJ/mol (σ 0; invented for this test),
+    /// every concentration in [1 µM, 10 mM] (common practice default range). Hand MDF: adding the two rows, −6 + RT·ln(c/a) ≤ −2B;
     /// ln(c/a) ≥ ln(1e-6/1e-2) = ln 1e-4, so 2B ≤ 6 + RT·ln 1e4 =
     /// 6 + 22.832 (RT = 2.478957 kJ/mol at 298.15 K, R from CODATA 2018)
     /// → B = 14.416 kJ/mol, both steps binding with dual value ½ each.

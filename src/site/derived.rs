@@ -91,7 +91,8 @@ mod tests {
 
     #[test]
     fn reactant_energy_is_the_boltzmann_sum_over_counted_species() {
-        // One species: the reactant is that species (common practice).
+        // One species: the reactant is that species (common practice);
+        // −2000 kJ/mol invented for this test.
         let one = reactant_dfg_prime_kj(&species(&[Some(-2000.0)])).unwrap();
         assert!((one - -2000.0).abs() < 1e-9, "{one}");
         // Two species of equal energy: −RT ln 2 lower; a left-out species

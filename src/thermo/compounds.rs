@@ -233,6 +233,8 @@ mod tests {
             ms.push(m);
         }
         // 2, 3: identical species data (rule 2); 4: same forms, other σ.
+        // Species values: origin not recorded, treat as invented for this
+        // test (only the equality of the data matters).
         let data = |sigma: f64| SpeciesData {
             species: vec![Species {
                 dfg0_kj: -508.17,

@@ -70,7 +70,8 @@ mod tests {
     use super::*;
 
     fn model() -> ErrorModel {
-        // Sources: a (σ 0.5), b (σ 0.5), own value of a third reaction (σ 2).
+        // Sources: a (σ 0.5), b (σ 0.5), own value of a third reaction (σ 2);
+        // σ values invented for this test.
         ErrorModel {
             sources: vec![
                 ErrorSource {

@@ -636,6 +636,8 @@ pub(crate) mod tests {
         // Without a pMg the Mg complex is left out, so ΔfG'° equals the Mg-free
         // value; with pMg 3 an extra pseudoisomer can only lower ΔfG'°
         // (−RT ln Σ grows with more terms): a property of the formula.
+        // −1566.87 = −455.3 (Mg²⁺, from memory) − 1096.1 (HPO4²⁻, p. 333)
+        // − RT ln10·2.71 (pK, Table 1.2, p. 7): arithmetic, rounded.
         let mut species = phosphate();
         species.push(Species {
             dfg0_kj: -1566.87,
@@ -747,6 +749,7 @@ pub(crate) mod tests {
         // values are rounded to 0.01, so a difference is good to ±0.01.
         // Urea pH 6 (−62.51) is flagged suspect in the reference README and
         // skipped: both differences touching it are left out.
+        // ΔfG° −100 is invented for this test: only differences are checked.
         for (name, n_h, row) in TABLE_4_2_SINGLE_SPECIES {
             let s = Species {
                 dfg0_kj: -100.0,
@@ -802,6 +805,7 @@ pub(crate) mod tests {
         let g = |i: usize| t.species_dfg_prime(&phosphate()[i], i).unwrap();
         let pk_prime = 7.0 - (g(1) - g(0)) / (t.rt() * std::f64::consts::LN_10);
         // pK(I = 0) is 7.22 (Alberty 2003, Table 1.2, p. 7); at I = 0.25 M it drops.
+        // Bounds 6.6–7.0: a loose window, not a printed value.
         assert!(pk_prime > 6.6 && pk_prime < 7.0, "{pk_prime}");
         let state = Transform::new(Conditions::new(pk_prime, 0.25, 298.15))
             .unwrap()

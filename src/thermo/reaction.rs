@@ -131,7 +131,8 @@ mod tests {
     #[test]
     fn range_puts_products_low_and_substrates_high() {
         let rt = rt(T_STANDARD_K);
-        // a → 2 b, both 1 µM – 10 mM.
+        // a → 2 b, both 1 µM – 10 mM (common practice default range); ΔrG'° −10
+        // and the measured values invented for this test, expectations arithmetic.
         let r = Range {
             min: 1e-6,
             max: 1e-2,
@@ -167,6 +168,7 @@ mod tests {
 
     #[test]
     fn verdicts() {
+        // Ranges, σ and k invented for this test around the verdict boundaries.
         let r = |min, max| Range { min, max };
         assert_eq!(verdict(r(5.0, 20.0), 1.0, 2.0, 1.0), Verdict::Contradiction);
         // Best ΔG' within ±k·σ of 0: at equilibrium as far as the data tell.

@@ -446,7 +446,8 @@ mod tests {
     #[test]
     fn charge_moved_into_a_negative_inside_costs_electrical_work() {
         // One negative charge into a compartment at −150 mV: +F·0.150 V
-        // = +14.473 kJ/mol (F·Δψ per unit charge; CODATA 2018 F).
+        // = +14.473 kJ/mol (F·Δψ per unit charge; CODATA 2018 F). The anion's
+        // ΔfG'° and nH are invented for this test (they cancel).
         let compartments = [state(7.0, 0.1, 0.0), state(7.0, 0.1, -150.0)];
         let anion = |coefficient: f64, compartment: usize| Participant {
             coefficient,
@@ -499,6 +500,7 @@ mod tests {
     fn balanced_symport_does_not_depend_on_the_reference() {
         // H+ + lactate⁻ symport (nH 5, z −1; common practice example): balanced
         // in H and charge, so any reference compartment gives the same ΔrG'°.
+        // Conditions and ΔfG'° values invented for this test.
         let compartments = [state(6.5, 0.15, 30.0), state(7.4, 0.15, -120.0)];
         let lactate = |coefficient: f64, compartment: usize| Participant {
             coefficient,
