@@ -29,13 +29,7 @@ mod common;
 fn main() {
     // `cargo bench` passes `--bench`; ignore flags other than our own.
     let args: Vec<String> = std::env::args().skip(1).collect();
-    let runs = args
-        .iter()
-        .position(|a| a == "--runs")
-        .and_then(|at| args.get(at + 1))
-        .and_then(|n| n.parse::<usize>().ok())
-        .unwrap_or(5)
-        .max(1);
+    let runs = common::runs(&args, 5);
     let Some(paths) = common::model_paths(&args) else {
         return;
     };

@@ -20,13 +20,7 @@ mod common;
 
 fn main() {
     let args: Vec<String> = std::env::args().skip(1).collect();
-    let runs = args
-        .iter()
-        .position(|a| a == "--runs")
-        .and_then(|at| args.get(at + 1))
-        .and_then(|n| n.parse::<usize>().ok())
-        .unwrap_or(3)
-        .max(1);
+    let runs = common::runs(&args, 3);
     let Some(paths) = common::model_paths(&args) else {
         return;
     };
@@ -43,14 +37,7 @@ fn main() {
         "all median"
     );
     for path in paths {
-        let name = path
-            .file_name()
-            .map(|n| {
-                n.to_string_lossy()
-                    .replace(".xml.gz", "")
-                    .replace(".xml", "")
-            })
-            .unwrap_or_default();
+        let name = common::model_name(&path);
         let mut project = match Project::load(&path) {
             Ok(p) => p,
             Err(e) => {

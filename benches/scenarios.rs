@@ -77,14 +77,7 @@ fn main() {
 
 fn measure(path: &Path) -> Result<(), String> {
     let model = read_sbml(path).map_err(|e| e.to_string())?;
-    let name = path
-        .file_name()
-        .map(|n| {
-            n.to_string_lossy()
-                .replace(".xml.gz", "")
-                .replace(".xml", "")
-        })
-        .unwrap_or_default();
+    let name = common::model_name(path);
     let (objective, raw) = flux_balance(&model)?;
     let internal = |j: usize| model.reactions[j].role == Role::Internal;
     // Loop law on the raw flux-balance flux (its own timing).

@@ -32,3 +32,26 @@ pub fn model_paths(args: &[String]) -> Option<Vec<PathBuf>> {
     }
     Some(paths)
 }
+
+/// `--runs N` from the command line (at least 1), else `default`.
+#[allow(dead_code)] // not every benchmark repeats its runs
+pub fn runs(args: &[String], default: usize) -> usize {
+    args.iter()
+        .position(|a| a == "--runs")
+        .and_then(|at| args.get(at + 1))
+        .and_then(|n| n.parse::<usize>().ok())
+        .unwrap_or(default)
+        .max(1)
+}
+
+/// A model's short name: its file name without `.xml` / `.xml.gz`.
+#[allow(dead_code)] // not every benchmark prints names this way
+pub fn model_name(path: &Path) -> String {
+    path.file_name()
+        .map(|n| {
+            n.to_string_lossy()
+                .replace(".xml.gz", "")
+                .replace(".xml", "")
+        })
+        .unwrap_or_default()
+}
