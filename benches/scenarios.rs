@@ -107,7 +107,11 @@ fn measure(path: &Path) -> Result<(), String> {
         }
         let dir = tempfile::tempdir().map_err(|e| e.to_string())?;
         write_project(dir.path(), path, &model, &table)?;
-        let mut project = Project::load(dir.path()).map_err(|e| e.to_string())?;
+        // The model stays in its own folder: allow it, as `--allow-dir` does.
+        let options = gibbsite::project::LoadOptions {
+            allowed_dirs: path.parent().map(Path::to_path_buf).into_iter().collect(),
+        };
+        let mut project = Project::load_with(dir.path(), &options).map_err(|e| e.to_string())?;
         // A project naming an SBML model does not read `scenarios:` from
         // gibbsite.yaml (only YAML models do), so the flux is added here.
         let mut fluxes: Vec<(usize, f64)> = flux
