@@ -3,8 +3,8 @@
 //! only numbers and fixed words we write; text nodes carry only numbers
 //! and fixed words too (no model names: the page's caption names them).
 
-use crate::site::svg::round2;
-use svg::node::element::{Line, Rectangle, Text, Title};
+use crate::site::svg::{round2, text};
+use svg::node::element::{Line, Rectangle, Title};
 use svg::Document;
 
 const WIDTH: f64 = 320.0;
@@ -73,14 +73,6 @@ fn label_number(v: f64) -> String {
         s.trim_end_matches('0').trim_end_matches('.').to_string()
     };
     s.replace('-', "\u{2212}")
-}
-
-fn text(x: f64, y: f64, anchor: &str, class: &str, content: String) -> Text {
-    Text::new(content)
-        .set("x", round2(x))
-        .set("y", round2(y))
-        .set("text-anchor", anchor)
-        .set("class", class)
 }
 
 /// The histogram as an inline `<svg>`; `what` names the figure (a fixed

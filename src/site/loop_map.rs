@@ -15,12 +15,12 @@
 //! only numbers and fixed words.
 
 use super::species_chart::shorten;
-use super::svg::round2;
+use super::svg::{round2, text};
 use crate::report::LoopMemberView;
 use serde::Serialize;
 use std::collections::BTreeMap;
 use std::f64::consts::PI;
-use svg::node::element::{Group, Path, Rectangle, Text, Title};
+use svg::node::element::{Group, Path, Rectangle, Title};
 use svg::Document;
 
 /// Up to this many members, boxes are wide and metabolite labels are
@@ -396,14 +396,6 @@ impl Bounds {
         self.add(left, y - LINE_HEIGHT);
         self.add(right, y + 4.0);
     }
-}
-
-fn text(x: f64, y: f64, anchor: &str, class: &str, content: String) -> Text {
-    Text::new(content)
-        .set("x", round2(x))
-        .set("y", round2(y))
-        .set("text-anchor", anchor)
-        .set("class", class)
 }
 
 /// The map of a loop whose `members` are already in loop order (see

@@ -5,20 +5,12 @@
 //! As in `svg.rs`, model strings only go into text nodes (escaped by the
 //! svg crate); attributes carry numbers and fixed words of our own.
 
-use super::svg::round2;
+use super::svg::{round2, text};
 use crate::report::{BindingView, ConflictSetView, ProfileStepView};
-use svg::node::element::{Definitions, Line, Marker, Path, Polygon, Rectangle, Text, Title};
+use svg::node::element::{Definitions, Line, Marker, Path, Polygon, Rectangle, Title};
 use svg::Document;
 
 const WIDTH: f64 = 640.0;
-
-fn text(x: f64, y: f64, anchor: &str, class: &str, content: String) -> Text {
-    Text::new(content)
-        .set("x", round2(x))
-        .set("y", round2(y))
-        .set("text-anchor", anchor)
-        .set("class", class)
-}
 
 fn arrow_marker() -> Definitions {
     Definitions::new().add(

@@ -78,6 +78,16 @@ pub(crate) fn round2(v: f64) -> f64 {
     (v * 100.0).round() / 100.0 + 0.0
 }
 
+/// A text element at (x, y) rounded to two decimals; the content is escaped
+/// by the svg crate (model strings go only here, never into attributes).
+pub(crate) fn text(x: f64, y: f64, anchor: &str, class: &str, content: String) -> Text {
+    Text::new(content)
+        .set("x", round2(x))
+        .set("y", round2(y))
+        .set("text-anchor", anchor)
+        .set("class", class)
+}
+
 fn label(x: f64, y: f64, anchor: &str, class: &str, text: String) -> Text {
     Text::new(text)
         .set("x", x)
