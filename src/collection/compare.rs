@@ -247,6 +247,20 @@ mod tests {
     use super::super::digest::LoopDigest;
     use super::*;
 
+    /// Models "a" and "b" side by side.
+    fn two<'a>(a: &'a Digest, b: &'a Digest) -> [Compared<'a>; 2] {
+        [
+            Compared {
+                name: "a",
+                digest: a,
+            },
+            Compared {
+                name: "b",
+                digest: b,
+            },
+        ]
+    }
+
     fn digest(
         reactions: &[&str],
         capable: &[&str],
@@ -338,16 +352,7 @@ mod tests {
     fn a_reaction_flagged_wherever_it_exists_in_every_model_is_no_difference() {
         let a = digest(&["R1"], &["R1"], &[], &[]);
         let b = digest(&["R1"], &["R1"], &[], &[]);
-        let models = [
-            Compared {
-                name: "a",
-                digest: &a,
-            },
-            Compared {
-                name: "b",
-                digest: &b,
-            },
-        ];
+        let models = two(&a, &b);
         assert!(compare(&models).rows.is_empty());
     }
 
@@ -356,16 +361,7 @@ mod tests {
         // Same reaction, PGI in one model and pgi_c in the other.
         let a = digest(&["PGI"], &["PGI"], &[], &[("PGI", "kegg.reaction:R00771")]);
         let b = digest(&["pgi_c"], &[], &[], &[("pgi_c", "kegg.reaction:R00771")]);
-        let models = [
-            Compared {
-                name: "a",
-                digest: &a,
-            },
-            Compared {
-                name: "b",
-                digest: &b,
-            },
-        ];
+        let models = two(&a, &b);
         let cmp = compare(&models);
         assert_eq!(cmp.rows.len(), 1);
         let row = &cmp.rows[0];
@@ -385,16 +381,7 @@ mod tests {
             &[("T1", "kegg.reaction:R1"), ("T2", "kegg.reaction:R1")],
         );
         let b = digest(&["T3"], &[], &[], &[("T3", "kegg.reaction:R1")]);
-        let models = [
-            Compared {
-                name: "a",
-                digest: &a,
-            },
-            Compared {
-                name: "b",
-                digest: &b,
-            },
-        ];
+        let models = two(&a, &b);
         let cmp = compare(&models);
         assert_eq!(cmp.rows.len(), 1);
         assert_eq!(cmp.rows[0].reactions, ["T1"]);
@@ -412,16 +399,7 @@ mod tests {
             &[("R1", "rhea:1"), ("R2", "rhea:2")],
         );
         let b = digest(&["R3"], &[], &[], &[("R3", "rhea:1"), ("R3", "rhea:2")]);
-        let models = [
-            Compared {
-                name: "a",
-                digest: &a,
-            },
-            Compared {
-                name: "b",
-                digest: &b,
-            },
-        ];
+        let models = two(&a, &b);
         let cmp = compare(&models);
         let groups: Vec<&Vec<String>> = cmp.rows.iter().map(|r| &r.reactions).collect();
         assert_eq!(
