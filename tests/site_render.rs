@@ -321,7 +321,10 @@ fn loops_view() -> LoopsView {
                 currency: "atp".into(),
                 compartment: "c".into(),
                 equation: "atp_c -> adp_c + pi_c".into(),
+                named_equation: "ATP → ADP + phosphate".into(),
+                slug: "cycle-atp-c".into(),
                 cycle_exists: true,
+                trivial: false,
                 example: vec![
                     loop_member("HAT", "acid–proton symport", 1.0, Some(HAT_DRG), &[]),
                     loop_member(HOSTILE_REACTION, "hostile", -1.0, Some(HOSTILE_DRG), &[]),
@@ -331,11 +334,15 @@ fn loops_view() -> LoopsView {
                 currency: "nadh".into(),
                 compartment: "c".into(),
                 equation: "nadh_c -> nad_c + h_c".into(),
+                named_equation: "NADH → NAD+ + H+".into(),
+                slug: "cycle-nadh-c".into(),
                 cycle_exists: false,
+                trivial: false,
                 example: vec![],
             },
         ],
         not_testable: vec!["gtp".into()],
+        not_used: vec!["atp in e".into()],
     }
 }
 
@@ -769,6 +776,7 @@ fn all_expected_files_exist_and_nothing_else() {
         "loops/index.html",
         "loops/loop-2.html",
         "loops/loop-10.html",
+        "loops/cycle-atp-c.html",
     ]
     .iter()
     .map(|s| s.to_string())
@@ -1895,16 +1903,19 @@ fn loop_index_lists_every_loop_with_its_numbers() {
             [
                 "atp",
                 "c",
-                "atp_c -&gt; adp_c + pi_c",
+                "ATP → ADP + phosphate",
                 "✖ yes",
                 &format!("HAT forward, {hostile} backward"),
             ],
-            ["nadh", "c", "nadh_c -&gt; nad_c + h_c", "✔ no", "—"],
+            ["nadh", "c", "NADH → NAD+ + H+", "✔ no", "—"],
         ]
     );
     assert!(index.contains(&format!("id=\"cycle-{}\"", slug("atp in c"))));
     assert!(text
         .contains("Not testable, for want of a complete dissipation reaction in the model: gtp."));
+    // A found cycle links to its page; tests left out are named.
+    assert!(index.contains("<a href=\"cycle-atp-c.html\""));
+    assert!(text.contains("not used as a currency in that compartment): atp in e."));
 }
 
 #[test]
@@ -2073,10 +2084,7 @@ fn finding_subjects_link_to_loop_pages_and_reactions_name_their_loops() {
             .count(),
         2
     );
-    assert!(findings.contains(&format!(
-        "<a href=\"loops/index.html#cycle-{}\">atp in c</a>",
-        slug("atp in c")
-    )));
+    assert!(findings.contains("<a href=\"loops/cycle-atp-c.html\">atp in c</a>"));
     // An id without a page stays plain text.
     assert!(findings.contains("<code>loop-1</code>"));
     let index = String::from_utf8(tree["index.html"].clone()).unwrap();

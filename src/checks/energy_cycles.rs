@@ -40,30 +40,37 @@ fn run(analysis: &Analysis) -> Vec<Finding> {
         .iter()
         .filter(|r| r.cycle_exists)
         .map(|r| {
-            let equation: Vec<String> = r
-                .test
-                .equation
-                .iter()
-                .map(|(m, c)| format!("{c:+} {m}"))
-                .collect();
+            let equation = r.test.named_equation(analysis.model);
             let mut subjects = vec![format!("{} in {}", r.test.currency, r.test.compartment)];
             subjects.extend(r.example.iter().map(|m| m.reaction.clone()));
+            let how = match r.example.as_slice() {
+                [only] => format!(
+                    "one reaction does it alone: {} run {} is exactly the reverse of the dissipation, so it undoes the dissipation with nothing else involved; its bounds should not allow that direction, or its equation lacks what pays for it",
+                    only.reaction,
+                    if only.coefficient > 0.0 { "forward" } else { "backward" },
+                ),
+                example => format!(
+                    "an example uses {} reactions: {}",
+                    example.len(),
+                    example
+                        .iter()
+                        .map(|m| format!(
+                            "{} {}",
+                            m.reaction,
+                            if m.coefficient > 0.0 { "forward" } else { "backward" }
+                        ))
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                ),
+            };
             Finding {
                 kind: "energy-generating-cycle".into(),
                 severity: Severity::Error,
                 subjects,
                 scenario: None,
                 message: format!(
-                    "the model regenerates {} in {} from nothing: with every boundary reaction shut, the dissipation {} can carry flux; an example uses {} reactions: {}",
-                    r.test.currency,
-                    r.test.compartment,
-                    equation.join(" "),
-                    r.example.len(),
-                    r.example
-                        .iter()
-                        .map(|m| format!("{} {:+}", m.reaction, m.coefficient))
-                        .collect::<Vec<_>>()
-                        .join(", ")
+                    "the model regenerates {} in {} from nothing: with every boundary reaction shut, the dissipation {equation} can carry flux; {how}",
+                    r.test.currency, r.test.compartment,
                 ),
                 evidence: evidence(&[("example_reactions", r.example.len() as f64)]),
             }

@@ -11,7 +11,7 @@
 
 use crate::model::Model;
 use serde::Serialize;
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, BTreeSet};
 
 /// A compound the dissipation reactions are written with.
 struct Compound {
@@ -376,32 +376,75 @@ fn recognise(model: &Model, options: &CurrencyOptions) -> BTreeMap<(&'static str
     found
 }
 
-/// The dissipation reactions that can be written in `model`, and the
-/// currencies for which no compartment has all participants.
-pub fn dissipation_tests(
+/// The dissipation reactions to test in a model.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct DissipationPlan {
+    pub tests: Vec<DissipationTest>,
+    /// Currencies for which no compartment has all participants.
+    pub not_testable: Vec<String>,
+    /// Dissipations that could be written but were left out because no
+    /// reaction of the model makes or consumes the charged form in that
+    /// compartment (it is only carried there, if at all): "atp in e".
+    pub not_used: Vec<String>,
+}
+
+/// Whether some reaction converts `metabolite` chemically rather than only
+/// carrying it between compartments: the reaction's net coefficient over
+/// every compartment's form of the same compound (`same_compound`) is not
+/// zero. ATP hydrolysis in the cytosol counts; an ATP exporter or the
+/// mitochondrial ATP/ADP exchanger does not.
+fn converted_by_some_reaction(
     model: &Model,
-    options: &CurrencyOptions,
-) -> (Vec<DissipationTest>, Vec<String>) {
+    metabolite: usize,
+    same_compound: &BTreeSet<usize>,
+) -> bool {
+    model.reactions.iter().any(|r| {
+        r.stoichiometry.iter().any(|&(m, _)| m == metabolite)
+            && r.stoichiometry
+                .iter()
+                .filter(|(m, _)| same_compound.contains(m))
+                .map(|(_, c)| c)
+                .sum::<f64>()
+                .abs()
+                > 1e-9
+    })
+}
+
+/// The dissipation reactions that can be written in `model`, the
+/// currencies for which no compartment has all participants, and the
+/// dissipations left out because the currency is not used as one in that
+/// compartment (issue: extracellular ATP is tested only when some reaction
+/// makes or consumes extracellular ATP).
+pub fn dissipation_tests(model: &Model, options: &CurrencyOptions) -> DissipationPlan {
     let found = recognise(model, options);
     let mut tests = Vec::new();
     let mut missing = Vec::new();
+    let mut not_used = Vec::new();
     for (currency, equation) in DISSIPATIONS {
         let before = tests.len();
+        let mut writable = false;
+        // The charged form: the first compound the dissipation consumes.
+        let charged = equation[0].0;
+        let forms: BTreeSet<usize> = found
+            .iter()
+            .filter(|((key, _), _)| *key == charged)
+            .map(|(_, &m)| m)
+            .collect();
         for (c, compartment) in model.compartments.iter().enumerate() {
             let column: Option<Vec<(usize, f64)>> = equation
                 .iter()
                 .map(|(key, coef)| found.get(&(*key, c)).map(|&m| (m, *coef)))
                 .collect();
-            if let Some(column) = column {
-                tests.push(test(
-                    model,
-                    currency,
-                    compartment_key(&compartment.id),
-                    column,
-                ));
+            let Some(column) = column else { continue };
+            writable = true;
+            let place = compartment_key(&compartment.id);
+            if converted_by_some_reaction(model, column[0].0, &forms) {
+                tests.push(test(model, currency, place, column));
+            } else {
+                not_used.push(format!("{currency} in {place}"));
             }
         }
-        if tests.len() == before {
+        if tests.len() == before && !writable {
             missing.push((*currency).to_string());
         }
     }
@@ -441,7 +484,56 @@ pub fn dissipation_tests(
     if tests.len() == before {
         missing.push("proton-gradient".to_string());
     }
-    (tests, missing)
+    DissipationPlan {
+        tests,
+        not_testable: missing,
+        not_used,
+    }
+}
+
+impl DissipationTest {
+    /// The dissipation as an equation of metabolite names (ids where a
+    /// metabolite has no name), e.g. `ATP + H2O → ADP + phosphate + H+`;
+    /// when it spans compartments every name carries its compartment,
+    /// `H+ [e] → H+ [c]`.
+    pub fn named_equation(&self, model: &Model) -> String {
+        let compartments: BTreeSet<usize> = self
+            .column
+            .iter()
+            .map(|&(m, _)| model.metabolites[m].compartment)
+            .collect();
+        let name = |m: usize| {
+            let metabolite = &model.metabolites[m];
+            let mut name = if metabolite.name.trim().is_empty() {
+                metabolite.id.clone()
+            } else {
+                metabolite.name.trim().to_string()
+            };
+            if compartments.len() > 1 {
+                let place = model
+                    .compartments
+                    .get(metabolite.compartment)
+                    .map_or("?", |c| compartment_key(&c.id));
+                name.push_str(&format!(" [{place}]"));
+            }
+            name
+        };
+        let side = |consumed: bool| {
+            self.column
+                .iter()
+                .filter(|&&(_, c)| (c < 0.0) == consumed)
+                .map(|&(m, c)| {
+                    if c.abs() == 1.0 {
+                        name(m)
+                    } else {
+                        format!("{} {}", c.abs(), name(m))
+                    }
+                })
+                .collect::<Vec<_>>()
+                .join(" + ")
+        };
+        format!("{} → {}", side(true), side(false))
+    }
 }
 
 fn test(

@@ -32,6 +32,11 @@ pub struct EnergyCycleResult {
     /// Model reactions of an example flux with the dissipation at 1
     /// (empty when no cycle exists).
     pub example: Vec<LoopMember>,
+    /// The example is one reaction: S·v = 0 with the dissipation at 1 makes
+    /// its column, times its flux, the dissipation's column negated, so that
+    /// reaction run the example's way is exactly the reverse of the
+    /// dissipation (it makes the currency with nothing else involved).
+    pub trivial: bool,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -39,6 +44,9 @@ pub struct EnergyCycleAnalysis {
     pub results: Vec<EnergyCycleResult>,
     /// Currencies the model has no complete dissipation reaction for.
     pub not_testable: Vec<String>,
+    /// Dissipations left out because no reaction makes or consumes the
+    /// currency in that compartment ("atp in e").
+    pub not_used: Vec<String>,
 }
 
 /// Runs every dissipation test the model allows.
@@ -51,7 +59,8 @@ pub fn energy_generating_cycles(
         stage: "energy-generating cycles",
         source,
     };
-    let (tests, not_testable) = dissipation_tests(model, options);
+    let plan = dissipation_tests(model, options);
+    let tests = plan.tests;
     let (mut network, _) = ClosedNetwork::close(model);
     let dissipations: Vec<usize> = tests
         .iter()
@@ -89,13 +98,15 @@ pub fn energy_generating_cycles(
             .collect();
         results.push(EnergyCycleResult {
             cycle_exists: !example.is_empty(),
+            trivial: example.len() == 1,
             test,
             example,
         });
     }
     Ok(EnergyCycleAnalysis {
         results,
-        not_testable,
+        not_testable: plan.not_testable,
+        not_used: plan.not_used,
     })
 }
 

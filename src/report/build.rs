@@ -484,6 +484,7 @@ fn loops_view(model: &Model, analysis: &Analysis) -> Option<LoopsView> {
         uncovered: Vec::new(),
         energy_cycles: Vec::new(),
         not_testable: Vec::new(),
+        not_used: Vec::new(),
     };
     match &results.loops {
         Err(e) => view.error = Some(e.to_string()),
@@ -562,6 +563,7 @@ fn loops_view(model: &Model, analysis: &Analysis) -> Option<LoopsView> {
         }
         Ok(cycles) => {
             view.not_testable = cycles.not_testable.clone();
+            view.not_used = cycles.not_used.clone();
             view.energy_cycles = cycles
                 .results
                 .iter()
@@ -585,7 +587,10 @@ fn loops_view(model: &Model, analysis: &Analysis) -> Option<LoopsView> {
                         currency: r.test.currency.clone(),
                         compartment: r.test.compartment.clone(),
                         equation: format!("{} -> {}", side(true), side(false)),
+                        named_equation: r.test.named_equation(model),
+                        slug: energy_cycle_slug(&r.test.currency, &r.test.compartment),
                         cycle_exists: r.cycle_exists,
+                        trivial: r.trivial,
                         example: r
                             .example
                             .iter()
@@ -686,4 +691,13 @@ fn species_label(sp: &crate::model::Species) -> String {
         label.push_str(&format!(", Mg {}", sp.magnesium));
     }
     label
+}
+
+/// Page name of an energy-generating cycle: `cycle-<currency>-<compartment>`
+/// (`e->c` written `e-to-c`), sanitised like every page name.
+pub fn energy_cycle_slug(currency: &str, compartment: &str) -> String {
+    crate::slug::slug(&format!(
+        "cycle-{currency}-{}",
+        compartment.replace("->", "-to-")
+    ))
 }

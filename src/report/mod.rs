@@ -176,6 +176,10 @@ pub struct LoopsView {
     pub energy_cycles: Vec<EnergyCycleView>,
     /// Currencies without a complete dissipation reaction in the model.
     pub not_testable: Vec<String>,
+    /// Dissipations not tested because nothing in the model makes or
+    /// consumes the currency in that compartment ("atp in e").
+    #[serde(default)]
+    pub not_used: Vec<String>,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -256,7 +260,16 @@ pub struct EnergyCycleView {
     pub compartment: String,
     /// The dissipation reaction tested, e.g. `atp_c + h2o_c -> adp_c + pi_c + h_c`.
     pub equation: String,
+    /// The same with metabolite names, e.g. `ATP + H2O → ADP + phosphate + H+`.
+    #[serde(default)]
+    pub named_equation: String,
+    /// Page of the cycle (`loops/<slug>.html`), written when it exists.
+    #[serde(default)]
+    pub slug: String,
     pub cycle_exists: bool,
+    /// The example is one reaction, run exactly as the dissipation reversed.
+    #[serde(default)]
+    pub trivial: bool,
     /// Reactions of an example flux (with the dissipation at 1).
     pub example: Vec<LoopMemberView>,
 }

@@ -18,12 +18,14 @@
 //! metabolites/index.html  metabolites/<slug>.html
 //! notes/index.html  notes/<slug>.html      (when the project has notes)
 //! loops/index.html  loops/<slug>.html      (the loop pages: one per loop)
+//! loops/cycle-<currency>-<compartment>.html (one per energy-generating cycle)
 //! scenarios/<slug>.html                    (one per scenario judged as a whole)
 //! maps/index.html  maps/<group>.html (+ .svg) (network maps, see [`map`])
 //! ```
 
 pub mod coverage;
 pub mod derived;
+pub mod energy_cycle_pages;
 pub mod format;
 pub mod loop_map;
 pub mod map;
@@ -359,14 +361,8 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
         .flat_map(|l| &l.loops)
         .map(|l| (l.id.as_str(), crate::slug::slug(&l.id)))
         .collect();
-    // Subjects naming an energy-generating-cycle test ("atp in c") link to
-    // its row on the loop index.
-    let energy_cycles: BTreeSet<String> = report
-        .loops
-        .iter()
-        .flat_map(|l| &l.energy_cycles)
-        .map(|c| energy_cycle_subject(&c.currency, &c.compartment))
-        .collect();
+    // Subjects naming an energy-generating cycle ("atp in c") link to its page.
+    let energy_cycles = energy_cycle_pages::subject_pages(report);
     let mut loop_findings: BTreeMap<&str, Vec<usize>> =
         loops.keys().map(|id| (*id, Vec::new())).collect();
     let mut reaction_findings: BTreeMap<&str, Vec<usize>> =
@@ -419,11 +415,11 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
                     kind: "loop",
                     slug: Cow::Owned(slug.clone()),
                 }
-            } else if energy_cycles.contains(id) {
+            } else if let Some(page) = energy_cycles.get(id) {
                 SubjectLink {
                     id,
                     kind: "energy-cycle",
-                    slug: Cow::Owned(energy_cycle_anchor(id)),
+                    slug: Cow::Owned(page.clone()),
                 }
             } else {
                 SubjectLink {
@@ -450,17 +446,6 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
         loops,
         reaction_counts,
     }
-}
-
-/// How the energy-cycle check names a test among a finding's subjects.
-fn energy_cycle_subject(currency: &str, compartment: &str) -> String {
-    format!("{currency} in {compartment}")
-}
-
-/// Fragment id of an energy-cycle test's row on loops/index.html (the
-/// template builds the same with the `anchor` filter).
-fn energy_cycle_anchor(subject: &str) -> String {
-    format!("cycle-{}", crate::slug::slug(subject))
 }
 
 /// Every page of the site with its context; standalone files (the maps'
@@ -663,6 +648,12 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             },
         ));
     }
+    out.extend(energy_cycle_pages::pages(
+        report,
+        &maps,
+        &page,
+        &findings_of,
+    ));
     for s in &report.joint_scenarios {
         out.push(scenario_page(&page, s));
     }

@@ -34,6 +34,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "note.html",
     "loops.html",
     "loop.html",
+    "energy_cycle.html",
     "collection.html",
     "scenario.html",
     "maps.html",
