@@ -137,14 +137,40 @@ fn resolve(from: &Path, target: &str) -> PathBuf {
     parts.iter().collect()
 }
 
+/// The legend of every verdict with its second channel: a sample line of
+/// the verdict's class, its glyph and its words in `legend`, and the rule
+/// giving that class its line pattern in `css`.
+fn assert_legend_complete(what: &str, legend: &str, css: &str) {
+    for v in MapVerdict::ALL {
+        let style = MapVerdictStyle::of(v);
+        assert!(
+            legend.contains(&format!("class=\"edge nmv-{}\"", v.slug())),
+            "{what}: no legend line for {v:?}"
+        );
+        assert!(legend.contains(&format!(">\n{}\n</text>", style.glyph)));
+        assert!(css.contains(&format!(
+            "path.nmv-{}{{stroke:{};stroke-width:{};stroke-dasharray:{}}}",
+            v.slug(),
+            style.colour,
+            style.width,
+            style.dash
+        )));
+        assert!(legend.contains(v.words()), "{what}: no words for {v:?}");
+    }
+}
+
 #[test]
 fn every_map_link_resolves_and_every_legend_shows_its_second_channel() {
     let report = demo_report();
     let tmp = tempfile::tempdir().unwrap();
     let out = tmp.path().join("site");
     gibbsite::site::render(&report, None, &out).unwrap();
+    // The shared key and stylesheet of the maps on pages.
+    let shared_legend = std::fs::read_to_string(out.join("assets/network-map-legend.svg")).unwrap();
+    let shared_css = std::fs::read_to_string(out.join("assets/network-map.css")).unwrap();
+    assert_legend_complete("assets/network-map-legend.svg", &shared_legend, &shared_css);
     let mut files: Vec<PathBuf> = Vec::new();
-    for folder in ["maps", "reactions", "metabolites"] {
+    for folder in ["maps", "reactions", "metabolites", "loops"] {
         for entry in std::fs::read_dir(out.join(folder)).unwrap() {
             files.push(entry.unwrap().path());
         }
@@ -152,8 +178,10 @@ fn every_map_link_resolves_and_every_legend_shows_its_second_channel() {
     files.sort();
     let mut links = 0;
     let mut maps = 0;
+    let mut standalone = 0;
     for file in &files {
         let text = std::fs::read_to_string(file).unwrap();
+        let is_svg = file.extension().is_some_and(|e| e == "svg");
         for block in text.split("<svg class=\"nm net-map\"").skip(1) {
             let svg = &block[..block.find("</svg>").unwrap()];
             maps += 1;
@@ -166,29 +194,30 @@ fn every_map_link_resolves_and_every_legend_shows_its_second_channel() {
             if overview {
                 continue;
             }
-            for v in MapVerdict::ALL {
-                let style = MapVerdictStyle::of(v);
-                // Legend sample with the verdict's class, its glyph, and a
-                // stylesheet rule giving that class its line pattern.
-                assert!(
-                    svg.contains(&format!("class=\"edge nmv-{}\"", v.slug())),
-                    "{}: no legend line for {v:?}",
-                    file.display()
-                );
-                assert!(svg.contains(&format!(">\n{}\n</text>", style.glyph)));
-                assert!(svg.contains(&format!(
-                    "path.nmv-{}{{stroke:{};stroke-width:{};stroke-dasharray:{}}}",
-                    v.slug(),
-                    style.colour,
-                    style.width,
-                    style.dash
-                )));
-                assert!(svg.contains(v.words()));
+            if is_svg {
+                // A standalone file opens on its own: its own stylesheet
+                // and legend.
+                standalone += 1;
+                assert_legend_complete(&file.display().to_string(), svg, svg);
+            } else {
+                // On a page: the shared key beside it, the shared
+                // stylesheet linked, no stylesheet repeated per map.
+                assert!(!svg.contains("<style>"), "{}", file.display());
+                let key = "<img class=\"net-map-key\" src=\"";
+                let at = text
+                    .find(key)
+                    .unwrap_or_else(|| panic!("{}: a map without the key", file.display()))
+                    + key.len();
+                let src = &text[at..at + text[at..].find('"').unwrap()];
+                assert!(resolve(file, src).ends_with("assets/network-map-legend.svg"));
+                assert!(resolve(file, src).is_file());
+                assert!(text.contains("assets/network-map.css\">"));
             }
         }
     }
     // Group maps and overview as pages and files, and neighbourhoods.
     assert!(maps >= 2 * 9 + 28, "{maps}");
+    assert!(standalone >= 8, "{standalone}");
     assert!(links > 300, "{links}");
 }
 
@@ -322,4 +351,118 @@ fn settings_override_the_side_compounds() {
     let tmp = tempfile::tempdir().unwrap();
     let dir = demo_copy_with(tmp.path(), "maps:\n  sides: [g6p_c]\n");
     assert!(Project::load(&dir).is_err());
+}
+
+/// A metabolite used by 15 reactions (below the hub degree of the side
+/// compounds, so drawn as a node), and one reaction with 21 main
+/// metabolites (invented for this test).
+fn crowded_model(dir: &Path) -> PathBuf {
+    let mut yaml = String::from(
+        "format: gibbsite-model/1\nid: crowded\ncompartments:\n  - {id: c, name: cytosol}\nmetabolites:\n  - {id: hub_c, compartment: c}\n",
+    );
+    for i in 0..15 {
+        yaml.push_str(&format!("  - {{id: m{i}_c, compartment: c}}\n"));
+    }
+    for i in 0..20 {
+        yaml.push_str(&format!("  - {{id: w{i}_c, compartment: c}}\n"));
+    }
+    yaml.push_str("reactions:\n");
+    for i in 0..15 {
+        yaml.push_str(&format!(
+            "  - {{id: R{i:02}, equation: hub_c -> m{i}_c, group: crowd}}\n"
+        ));
+    }
+    let wide: Vec<String> = (0..20).map(|i| format!("w{i}_c")).collect();
+    yaml.push_str(&format!(
+        "  - {{id: WIDE, equation: m0_c -> {}, group: crowd}}\n",
+        wide.join(" + ")
+    ));
+    let path = dir.join("model.yaml");
+    std::fs::write(&path, yaml).unwrap();
+    path
+}
+
+#[test]
+fn neighbourhood_maps_are_capped_and_say_what_they_leave_out() {
+    use gibbsite::site::map::{NEIGHBOURHOOD_METABOLITES, NEIGHBOURHOOD_REACTIONS};
+    let tmp = tempfile::tempdir().unwrap();
+    let report = Project::load(&crowded_model(tmp.path()))
+        .expect("loads")
+        .analyse();
+    let ctx = MapContext::new(&report);
+    let count = |d: &Drawn, reactions: bool| {
+        d.nodes
+            .iter()
+            .filter(|n| n.is_reaction == reactions)
+            .count()
+    };
+    // R05 reaches all 16 reactions within two steps (through hub_c, then m0_c).
+    let near = pages::reaction_neighbourhood(&ctx, "R05").unwrap();
+    assert_eq!(count(&near, true), NEIGHBOURHOOD_REACTIONS);
+    assert!(count(&near, false) <= NEIGHBOURHOOD_METABOLITES);
+    // The subject comes first and is highlighted.
+    assert_eq!(near.nodes[0].id, "R05");
+    assert_eq!(near.svg.matches(" subject\"").count(), 1);
+    // The hub's map: its first reactions only.
+    let hub = pages::metabolite_neighbourhood(&ctx, "hub_c").unwrap();
+    assert_eq!(count(&hub, true), NEIGHBOURHOOD_REACTIONS);
+    assert!(count(&hub, false) <= NEIGHBOURHOOD_METABOLITES);
+    // WIDE has 21 main metabolites: 12 boxes at most, the rest counted.
+    let wide = pages::reaction_neighbourhood(&ctx, "WIDE").unwrap();
+    assert_eq!(count(&wide, false), NEIGHBOURHOOD_METABOLITES);
+    assert!(wide.svg.contains("+9 more not drawn"), "{}", wide.svg);
+    // Hover text once per reaction on a small map (on its box).
+    assert_eq!(
+        wide.svg.matches("<title>").count(),
+        1 + count(&wide, true) + count(&wide, false)
+    );
+    // A group map is a full map: no cap on metabolites, hover on arrows too.
+    let site = pages::group_maps(&ctx);
+    let part = site
+        .pages
+        .iter()
+        .find(|p| p.drawn.nodes.iter().any(|n| n.id == "WIDE"))
+        .unwrap();
+    assert!(!part.svg.contains("more not drawn"));
+    assert!(part.drawn.nodes.iter().any(|n| n.id == "w19_c"));
+    // The page states the limits.
+    let out = tmp.path().join("site");
+    gibbsite::site::render(&report, None, &out).unwrap();
+    let page = std::fs::read_to_string(out.join("reactions/R05.html")).unwrap();
+    assert!(page.contains(&format!(
+        "at most {NEIGHBOURHOOD_REACTIONS} reactions (the nearest ones) and {NEIGHBOURHOOD_METABOLITES} metabolite boxes"
+    )));
+}
+
+#[test]
+fn standalone_svg_files_open_on_their_own() {
+    let report = demo_report();
+    let ctx = MapContext::new(&report);
+    let site = pages::group_maps(&ctx);
+    let page = &site.pages[0];
+    let file = page.drawn.standalone();
+    // Its own stylesheet, every arrow head, its legend, the same drawing.
+    assert!(file.contains("<style>"));
+    for v in MapVerdict::ALL {
+        assert!(file.contains(&format!("id=\"nm-head-{}\"", v.slug())));
+    }
+    assert!(file.contains("class=\"nm-key\""));
+    let body = |svg: &str| {
+        let start = svg.find("<g transform=").unwrap();
+        let end = svg
+            .find("<g class=\"nm-key\"")
+            .unwrap_or(svg.rfind("</svg>").unwrap());
+        svg[start..end].to_string()
+    };
+    assert_eq!(body(&file), body(&page.svg));
+    // The inline copy has neither stylesheet nor legend; it is smaller.
+    assert!(!page.svg.contains("<style>"));
+    assert!(!page.svg.contains("nm-key"));
+    assert!(page.svg.len() < file.len());
+    // The file's viewBox includes the legend below the drawing.
+    let height = |svg: &str| -> f64 {
+        let at = svg.find("height=\"").unwrap() + 8;
+        svg[at..at + svg[at..].find('"').unwrap()].parse().unwrap()
+    };
+    assert!(height(&file) > height(&page.svg) + 50.0);
 }

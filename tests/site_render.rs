@@ -751,6 +751,9 @@ fn all_expected_files_exist_and_nothing_else() {
         "assets/style.css",
         "assets/table.js",
         "assets/map.js",
+        // The maps' shared stylesheet and key.
+        "assets/network-map.css",
+        "assets/network-map-legend.svg",
         // Network maps: the fixture's groups (ATPH in `energy`, HAT in
         // `transport`, the rest without group), each also as SVG.
         "maps/index.html",

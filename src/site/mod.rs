@@ -524,6 +524,7 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
         ),
     ];
     let maps = map::MapContext::new(report);
+    let mut near = map::pages::neighbourhoods(&maps);
     out.extend(
         map_pages(&maps, files)
             .into_iter()
@@ -563,8 +564,8 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
                 findings => findings_of(index.reaction_findings.get(reaction.id.as_str())),
                 range_bar => bar.map(Value::from_safe_string),
                 breakdown => derived::breakdown(reaction),
-                network_map => map::pages::reaction_neighbourhood(&maps, &reaction.id)
-                    .map(|d| Value::from_safe_string(d.svg)),
+                network_map => near.reactions.remove(reaction.id.as_str())
+                    .map(Value::from_safe_string),
             },
         ));
     }
@@ -593,8 +594,8 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
                         .collect::<Vec<_>>()
                 }),
                 species_dfg_prime_kj => species.and_then(derived::reactant_dfg_prime_kj),
-                network_map => map::pages::metabolite_neighbourhood(&maps, &metabolite.id)
-                    .map(|d| Value::from_safe_string(d.svg)),
+                network_map => near.metabolites.remove(metabolite.id.as_str())
+                    .map(Value::from_safe_string),
             },
         ));
     }
@@ -693,7 +694,8 @@ fn map_pages(
     files: &mut Vec<(String, String)>,
 ) -> Vec<(String, String, Value)> {
     let site = map::pages::group_maps(maps);
-    files.push(("maps/index.svg".into(), site.overview_svg.clone()));
+    files.extend(map::pages::shared_assets());
+    files.push(("maps/index.svg".into(), site.overview.standalone()));
     let mut out = vec![(
         "maps/index.html".to_string(),
         "Maps".to_string(),
@@ -705,7 +707,7 @@ fn map_pages(
         },
     )];
     for p in site.pages {
-        files.push((format!("maps/{}.svg", p.stem), p.svg.clone()));
+        files.push((format!("maps/{}.svg", p.stem), p.drawn.standalone()));
         let title = if p.parts > 1 {
             format!("{} ({} of {})", p.group, p.part, p.parts)
         } else {

@@ -40,6 +40,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "maps.html",
     "map.html",
     "map_section.html",
+    "map_key.html",
     "style.css",
     "table.js",
     "map.js",

@@ -27,8 +27,13 @@ use std::collections::{BTreeMap, BTreeSet};
 /// published figure.
 pub const READABLE_REACTIONS: usize = 30;
 /// Largest number of reactions on a neighbourhood map (the subject and the
-/// nearest others, by steps then id).
-pub const NEIGHBOURHOOD_REACTIONS: usize = 16;
+/// nearest others, by steps then id). Small on purpose: every reaction and
+/// metabolite page carries one (Recon3D: about 16,000 maps), so their size
+/// is most of a large site's map bytes; the group maps show more.
+pub const NEIGHBOURHOOD_REACTIONS: usize = 8;
+/// Largest number of metabolite boxes on a neighbourhood map; a reaction
+/// whose other metabolites do not fit says how many were left out.
+pub const NEIGHBOURHOOD_METABOLITES: usize = 12;
 
 /// How a reaction's arrow is styled on a map.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
@@ -246,6 +251,9 @@ pub struct MapSpec<'a> {
     pub elsewhere: BTreeMap<&'a str, Vec<(String, String)>>,
     /// Prefix from the page holding the map to the site root ("../").
     pub root: &'a str,
+    /// A small map (neighbourhoods): at most this many metabolite boxes,
+    /// shortened hover texts given once per reaction. `None`: a full map.
+    pub max_metabolites: Option<usize>,
 }
 
 /// Map of an arbitrary set of reactions (for example a minimal conflicting
@@ -273,6 +281,7 @@ pub fn reaction_set_map(
         overlay: scenario.map_or(Overlay::Verdicts, Overlay::Scenario),
         elsewhere: BTreeMap::new(),
         root: "../",
+        max_metabolites: None,
     };
     Some(render::draw(ctx, &spec).svg)
 }

@@ -15,8 +15,8 @@
 
 use super::render::{self, GroupNode};
 use super::{
-    reaction_verdict, MapContext, MapSpec, MapVerdict, Overlay, NEIGHBOURHOOD_REACTIONS,
-    READABLE_REACTIONS,
+    reaction_verdict, MapContext, MapSpec, MapVerdict, Overlay, NEIGHBOURHOOD_METABOLITES,
+    NEIGHBOURHOOD_REACTIONS, READABLE_REACTIONS,
 };
 use serde::Serialize;
 use std::collections::{BTreeMap, BTreeSet};
@@ -249,6 +249,7 @@ pub fn group_maps(ctx: &MapContext<'_>) -> MapSite {
                 overlay: Overlay::Verdicts,
                 elsewhere,
                 root: "../",
+                max_metabolites: None,
             };
             let drawn = render::draw(ctx, &spec);
             pages.push(MapPage {
@@ -352,6 +353,7 @@ pub fn reaction_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<render::
         overlay: Overlay::Verdicts,
         elsewhere: BTreeMap::new(),
         root: "../",
+        max_metabolites: Some(NEIGHBOURHOOD_METABOLITES),
     };
     Some(render::draw(ctx, &spec))
 }
@@ -370,6 +372,53 @@ pub fn metabolite_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<render
         overlay: Overlay::Verdicts,
         elsewhere: BTreeMap::new(),
         root: "../",
+        max_metabolites: Some(NEIGHBOURHOOD_METABOLITES),
     };
     Some(render::draw(ctx, &spec))
+}
+
+/// Files every site with maps shares: the maps' stylesheet and the key of
+/// verdict maps, as (path in the site, content).
+pub fn shared_assets() -> [(String, String); 2] {
+    [
+        (
+            "assets/network-map.css".to_string(),
+            render::shared_stylesheet(),
+        ),
+        (
+            "assets/network-map-legend.svg".to_string(),
+            render::shared_legend(),
+        ),
+    ]
+}
+
+/// The neighbourhood maps of every reaction and metabolite page, as
+/// inline SVG by id, drawn in parallel (each map is independent; the
+/// result does not depend on the order).
+pub struct Neighbourhoods<'a> {
+    pub reactions: BTreeMap<&'a str, String>,
+    pub metabolites: BTreeMap<&'a str, String>,
+}
+
+pub fn neighbourhoods<'a>(ctx: &MapContext<'a>) -> Neighbourhoods<'a> {
+    use rayon::prelude::*;
+    let report = ctx.report;
+    let reactions = report
+        .reactions
+        .par_iter()
+        .filter_map(|r| reaction_neighbourhood(ctx, &r.id).map(|d| (r.id.as_str(), d.svg)))
+        .collect::<Vec<_>>()
+        .into_iter()
+        .collect();
+    let metabolites = report
+        .metabolites
+        .par_iter()
+        .filter_map(|m| metabolite_neighbourhood(ctx, &m.id).map(|d| (m.id.as_str(), d.svg)))
+        .collect::<Vec<_>>()
+        .into_iter()
+        .collect();
+    Neighbourhoods {
+        reactions,
+        metabolites,
+    }
 }

@@ -18,8 +18,6 @@ use crate::site::species_chart::shorten;
 use petgraph::graph::{DiGraph, NodeIndex};
 use std::collections::BTreeMap;
 use svg::node::element::{Anchor, Definitions, Group, Marker, Path, Rectangle, Style, Text, Title};
-use svg::node::Blob;
-use svg::Document;
 
 /// Rough advance of one character at the 12 px of the map; generous, so
 /// labels stay inside their boxes in common sans-serif fonts.
@@ -32,6 +30,8 @@ const ID_CHARS: usize = 26;
 const SIDE_CHARS: usize = 34;
 const LEGEND_ITEM_WIDTH: f64 = 220.0;
 const LEGEND_COLUMNS: usize = 3;
+/// Longest name or equation in the hover text of a small map.
+const SMALL_HOVER_CHARS: usize = 90;
 
 /// Our palette (worst pairwise CIE76 ΔE of the five under the simulated
 /// deficiencies is ≥ 25; see the test `palette_survives_colour_blindness`).
@@ -166,6 +166,7 @@ pub struct Drawn {
     pub links: Vec<String>,
     /// Line pattern and glyph shown for each verdict in the legend.
     pub legend: Vec<(MapVerdict, &'static str, &'static str)>,
+    frame: Frame,
 }
 
 /// A box of the drawing with the text lines inside it (in drawing units).
@@ -248,11 +249,32 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
             let words = format!("{} → {}", side_in.join(" + "), side_out.join(" + "));
             lines.push((shorten(words.trim(), SIDE_CHARS), "side"));
         }
+        // On a small map, metabolites beyond the cap are left out; the
+        // reaction box says how many.
+        let main: Vec<(&str, f64)> = ctx.main_of.get(rid).cloned().unwrap_or_default();
+        let mut drawn_main = Vec::with_capacity(main.len());
+        let mut new_boxes = 0;
+        for &(m, c) in &main {
+            let known = metabolite_node.contains_key(m);
+            match spec.max_metabolites {
+                Some(cap) if !known && metabolite_node.len() + new_boxes >= cap => {}
+                _ => {
+                    if !known && !drawn_main.iter().any(|&(d, _)| d == m) {
+                        new_boxes += 1;
+                    }
+                    drawn_main.push((m, c));
+                }
+            }
+        }
+        let left_out = main.len() - drawn_main.len();
+        if left_out > 0 {
+            lines.push((format!("+{left_out} more not drawn"), "side"));
+        }
         let node = graph.add_node(box_size(&lines)).index();
         kinds.push(NodeKind::Reaction(rid));
         texts.push(NodeText { lines });
         reaction_nodes.push(node);
-        for &(m, coefficient) in ctx.main_of.get(rid).into_iter().flatten() {
+        for &(m, coefficient) in &drawn_main {
             let mnode = *metabolite_node.entry(m).or_insert_with(|| {
                 let mut lines = vec![(shorten(m, ID_CHARS), "mid")];
                 if let Some(links) = spec.elsewhere.get(m) {
@@ -295,7 +317,12 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
                 None => ("idle", None),
             },
         };
-        let mut arrows = Group::new().add(Title::new(reaction_hover(ctx, rid, spec.overlay)));
+        // A small map gives the hover text once, on the reaction's box.
+        let mut arrows = if spec.max_metabolites.is_some() {
+            Group::new()
+        } else {
+            Group::new().add(Title::new(reaction_hover(ctx, rid, spec)))
+        };
         while e < edges.len() && edges[e].2 == rid {
             let (a, b, _) = edges[e];
             let d = edge_path(&placed.nodes[a], &placed.nodes[b], &placed.bends[e]);
@@ -332,7 +359,7 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
                     *rid,
                     format!("{root}reactions/{}.html", r.slug),
                     format!("rxn {class}"),
-                    reaction_hover(ctx, rid, spec.overlay),
+                    reaction_hover(ctx, rid, spec),
                     true,
                 )
             }
@@ -456,64 +483,149 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
         _ => None,
     };
     let verdicts_only = matches!(spec.overlay, Overlay::Verdicts);
-    let (legend, legend_height, legend_width, legend_entries) = if verdicts_only {
+    // A verdict map leaves its legend to the shared key
+    // (`assets/network-map-legend.svg`) on pages; only its standalone
+    // copy carries one. A scenario map keeps its own (idle arrows, widths).
+    let (legend_text, legend_height, legend_width, legend_entries) = if verdicts_only {
         let cached = fixed_parts();
-        (Group::new(), cached.2, cached.3, cached.4.clone())
+        (cached.1.clone(), cached.2, cached.3, cached.4.clone())
     } else {
-        legend(spec.overlay, scenario_note)
+        let (g, h, w, e) = legend(spec.overlay, scenario_note);
+        (g.to_string(), h, w, e)
     };
-    let width = placed.width.max(legend_width);
-    let top = MARGIN;
-    let (w, h) = (
-        round2(width + 2.0 * MARGIN),
-        round2(placed.height + legend_height + 3.0 * MARGIN),
-    );
-    // The stylesheet, markers and legend of a verdict map are the same on
-    // every map: written once per process and reused as text (building
-    // them node by node took a large share of the time per map).
-    let (head, legend_node): (Blob, Group) = if verdicts_only {
-        let cached = fixed_parts();
-        (
-            Blob::new(cached.0.as_str()),
-            Group::new().add(Blob::new(cached.1.as_str())),
-        )
-    } else {
-        (
-            Blob::new(format!(
-                "{}\n{}",
-                Style::new(stylesheet()),
-                defs(spec.overlay)
-            )),
-            legend,
-        )
+    let body = Group::new()
+        .set("transform", format!("translate({MARGIN},{MARGIN})"))
+        .add(edge_group)
+        .add(node_group)
+        .to_string();
+    let mut used: Vec<&str> = edges
+        .iter()
+        .map(|&(_, _, rid)| match spec.overlay {
+            Overlay::Verdicts => reaction_verdict(ctx.reactions[rid]).slug(),
+            Overlay::Scenario(_) => scenario_flux(rid).map_or("idle", |(_, v)| v.slug()),
+        })
+        .collect();
+    used.sort_unstable();
+    used.dedup();
+    let frame = Frame {
+        title: Title::new(spec.title.clone()).to_string(),
+        width: placed.width,
+        height: placed.height,
+        markers: used.iter().map(|slug| marker(slug).to_string()).collect(),
+        legend: legend_text,
+        legend_height,
+        legend_width,
+        legend_inline: !verdicts_only,
+        all_markers: if verdicts_only {
+            fixed_parts().0.clone()
+        } else {
+            defs(spec.overlay).to_string()
+        },
     };
-    // Natural size: shown 1:1, shrunk (never blown up) to the page width.
-    let doc = Document::new()
-        .set("viewBox", (0, 0, w, h))
-        .set("width", w)
-        .set("height", h)
-        .set("class", "nm net-map")
-        .set("role", "img")
-        .add(Title::new(spec.title.clone()))
-        .add(head)
-        .add(
-            Group::new()
-                .set("transform", format!("translate({MARGIN},{top})"))
-                .add(edge_group)
-                .add(node_group),
-        )
-        .add(legend_node.set(
-            "transform",
-            format!(
-                "translate({MARGIN},{})",
-                round2(top + placed.height + MARGIN)
-            ),
-        ));
     Drawn {
-        svg: doc.to_string(),
+        svg: frame.inline(&body),
         nodes: drawn_nodes,
         links,
         legend: legend_entries,
+        frame,
+    }
+}
+
+/// The parts a map's SVG is assembled from, as text: the inline copy for a
+/// page (styles from the shared `assets/network-map.css`, only the arrow
+/// heads it uses, no legend on verdict maps) and the standalone `.svg`
+/// (its own stylesheet, every arrow head, the legend).
+#[derive(Debug, Clone, Default)]
+pub struct Frame {
+    title: String,
+    width: f64,
+    height: f64,
+    markers: Vec<String>,
+    legend: String,
+    legend_height: f64,
+    legend_width: f64,
+    legend_inline: bool,
+    all_markers: String,
+}
+
+impl Frame {
+    fn open(&self, with_legend: bool) -> (String, f64) {
+        let width = if with_legend {
+            self.width.max(self.legend_width)
+        } else {
+            self.width
+        };
+        let (w, h) = (
+            round2(width + 2.0 * MARGIN),
+            round2(
+                self.height
+                    + 2.0 * MARGIN
+                    + if with_legend {
+                        self.legend_height + MARGIN
+                    } else {
+                        0.0
+                    },
+            ),
+        );
+        (
+            format!(
+                "<svg class=\"nm net-map\" height=\"{h}\" role=\"img\" viewBox=\"0 0 {w} {h}\" width=\"{w}\" xmlns=\"http://www.w3.org/2000/svg\">\n{}\n",
+                self.title
+            ),
+            round2(MARGIN + self.height + MARGIN),
+        )
+    }
+
+    fn legend_at(&self, y: f64) -> String {
+        format!(
+            "<g class=\"nm-key\" transform=\"translate({MARGIN},{y})\">\n{}\n</g>\n",
+            self.legend
+        )
+    }
+
+    /// The map for a page.
+    fn inline(&self, body: &str) -> String {
+        let (open, legend_y) = self.open(self.legend_inline);
+        let mut out = open;
+        if !self.markers.is_empty() {
+            out.push_str("<defs>");
+            for m in &self.markers {
+                out.push_str(m);
+            }
+            out.push_str("</defs>\n");
+        }
+        out.push_str(body);
+        out.push('\n');
+        if self.legend_inline {
+            out.push_str(&self.legend_at(legend_y));
+        }
+        out.push_str("</svg>");
+        out
+    }
+}
+
+impl Drawn {
+    /// The map as a file of its own (for a paper or a slide): its own
+    /// stylesheet, every arrow head and the legend.
+    pub fn standalone(&self) -> String {
+        let f = &self.frame;
+        let (open, legend_y) = f.open(true);
+        let body_start = self.svg.find("<g transform=").unwrap_or(self.svg.len());
+        let body_end = self
+            .svg
+            .find("<g class=\"nm-key\"")
+            .or_else(|| self.svg.rfind("</svg>"))
+            .unwrap_or(self.svg.len())
+            .max(body_start);
+        let mut out = open;
+        out.push_str(&Style::new(stylesheet()).to_string());
+        out.push('\n');
+        out.push_str(&f.all_markers);
+        out.push('\n');
+        out.push_str(&self.svg[body_start..body_end]);
+        out.push_str(&f.legend_at(legend_y));
+        out.push_str("</svg>");
+        out
     }
 }
 
@@ -532,7 +644,7 @@ fn fixed_parts() -> &'static FixedParts {
     PARTS.get_or_init(|| {
         let (group, height, width, entries) = legend(Overlay::Verdicts, None);
         (
-            format!("{}\n{}", Style::new(stylesheet()), defs(Overlay::Verdicts)),
+            defs(Overlay::Verdicts).to_string(),
             group.to_string(),
             height,
             width,
@@ -573,15 +685,24 @@ fn round2(v: f64) -> f64 {
 }
 
 /// Hover text of a reaction: name, equation, ΔG' range, verdict.
-fn reaction_hover(ctx: &MapContext<'_>, rid: &str, overlay: Overlay<'_>) -> String {
+fn reaction_hover(ctx: &MapContext<'_>, rid: &str, spec: &MapSpec<'_>) -> String {
+    let overlay = spec.overlay;
     let r = ctx.reactions[rid];
+    // A small map shortens long names and equations (the page has them).
+    let cut = |text: &str| {
+        if spec.max_metabolites.is_some() {
+            shorten(text, SMALL_HOVER_CHARS)
+        } else {
+            text.to_string()
+        }
+    };
     let mut s = if r.name.is_empty() {
         r.id.clone()
     } else {
-        format!("{} — {}", r.id, r.name)
+        format!("{} — {}", r.id, cut(&r.name))
     };
     s.push('\n');
-    s.push_str(&r.equation);
+    s.push_str(&cut(&r.equation));
     match &r.dg_range {
         Some(range) => s.push_str(&format!(
             "\nΔG′ range: {} to {} kJ/mol",
@@ -853,39 +974,51 @@ pub fn draw_overview(title: &str, groups: &[GroupNode], links: &[(usize, usize)]
             "red solid frame: has errors · amber dashed frame: warnings only · grey line: groups that pass metabolites on"
                 .into(),
         ));
-    let legend_width = 100.0 * CHAR_WIDTH;
-    let width = placed.width.max(legend_width);
-    let (w, h) = (
-        round2(width + 2.0 * MARGIN),
-        round2(placed.height + 60.0 + 3.0 * MARGIN),
-    );
-    let doc = Document::new()
-        .set("viewBox", (0, 0, w, h))
-        .set("width", w)
-        .set("height", h)
-        .set("class", "nm net-map")
-        .set("role", "img")
-        .add(Title::new(title.to_string()))
-        .add(Style::new(stylesheet()))
-        .add(
-            Group::new()
-                .set("transform", format!("translate({MARGIN},{MARGIN})"))
-                .add(edge_group)
-                .add(node_group),
-        )
-        .add(key.set(
-            "transform",
-            format!(
-                "translate({MARGIN},{})",
-                round2(2.0 * MARGIN + placed.height)
-            ),
-        ));
+    let frame = Frame {
+        title: Title::new(title.to_string()).to_string(),
+        width: placed.width,
+        height: placed.height,
+        markers: Vec::new(),
+        legend: key.to_string(),
+        legend_height: 60.0,
+        legend_width: 100.0 * CHAR_WIDTH,
+        legend_inline: true,
+        all_markers: String::new(),
+    };
+    let body = Group::new()
+        .set("transform", format!("translate({MARGIN},{MARGIN})"))
+        .add(edge_group)
+        .add(node_group)
+        .to_string();
     Drawn {
-        svg: doc.to_string(),
+        svg: frame.inline(&body),
         nodes,
         links: hrefs,
         legend: Vec::new(),
+        frame,
     }
+}
+
+/// The stylesheet of every map, shared by the pages as
+/// `assets/network-map.css` (standalone `.svg` files carry their own copy).
+pub fn shared_stylesheet() -> String {
+    stylesheet()
+}
+
+/// The key of verdict maps as a file of its own
+/// (`assets/network-map-legend.svg`), shown beside every map of a page.
+pub fn shared_legend() -> String {
+    let parts = fixed_parts();
+    let (w, h) = (
+        round2(parts.3 + 2.0 * MARGIN),
+        round2(parts.2 + 2.0 * MARGIN),
+    );
+    format!(
+        "<svg class=\"nm net-map-key\" height=\"{h}\" role=\"img\" viewBox=\"0 0 {w} {h}\" width=\"{w}\" xmlns=\"http://www.w3.org/2000/svg\">\n<title>Key of the network maps</title>\n{}\n{}\n<g transform=\"translate({MARGIN},{MARGIN})\">\n{}\n</g>\n</svg>\n",
+        Style::new(stylesheet()),
+        parts.0,
+        parts.1
+    )
 }
 
 #[cfg(test)]
