@@ -170,7 +170,7 @@ fn every_map_link_resolves_and_every_legend_shows_its_second_channel() {
     let shared_css = std::fs::read_to_string(out.join("assets/network-map.css")).unwrap();
     assert_legend_complete("assets/network-map-legend.svg", &shared_legend, &shared_css);
     let mut files: Vec<PathBuf> = Vec::new();
-    for folder in ["maps", "reactions", "metabolites", "loops"] {
+    for folder in ["maps", "reactions", "metabolites", "loops", "scenarios"] {
         for entry in std::fs::read_dir(out.join(folder)).unwrap() {
             files.push(entry.unwrap().path());
         }
@@ -465,4 +465,40 @@ fn standalone_svg_files_open_on_their_own() {
         svg[at..at + svg[at..].find('"').unwrap()].parse().unwrap()
     };
     assert!(height(&file) > height(&page.svg) + 50.0);
+}
+
+#[test]
+fn every_conflicting_set_has_a_network_map_on_its_scenario_page() {
+    let report = demo_report();
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    gibbsite::site::render(&report, None, &out).unwrap();
+    let mut sets = 0;
+    for s in &report.joint_scenarios {
+        let page = std::fs::read_to_string(out.join(format!("scenarios/{}.html", s.slug))).unwrap();
+        let maps: Vec<&str> = page.split("<svg class=\"nm net-map\"").skip(1).collect();
+        assert_eq!(maps.len(), s.conflicts.len(), "{}", s.id);
+        for (map, set) in maps.iter().zip(&s.conflicts) {
+            let svg = &map[..map.find("</svg>").unwrap()];
+            // Every member drawn, linked to its page.
+            for m in &set.members {
+                assert!(
+                    svg.contains(&format!(
+                        "href=\"../reactions/{}.html\"",
+                        gibbsite::slug::slug(&m.reaction)
+                    )),
+                    "{}: {} not on the map",
+                    s.id,
+                    m.reaction
+                );
+            }
+            sets += 1;
+        }
+    }
+    // The demo's dusk scenario has two sets (PEPS; LDH), bloom one of three
+    // reactions (see tests/demo.rs and tests/scenarios_joint.rs).
+    assert!(sets >= 4, "{sets}");
+    // At dusk the flux overlay is used: arrows sized by |flux|.
+    let dusk = std::fs::read_to_string(out.join("scenarios/dusk.html")).unwrap();
+    assert!(dusk.contains("arrow width ∝ |flux|"));
 }

@@ -656,7 +656,7 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
         &findings_of,
     ));
     for s in &report.joint_scenarios {
-        out.push(scenario_page(&page, s));
+        out.push(scenario_page(&page, &maps, s));
     }
     out
 }
@@ -664,8 +664,13 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
 /// The page of one scenario judged as a whole, with its drawings.
 fn scenario_page(
     page: &dyn Fn(&'static str, String, &str, &str, Value) -> Page,
+    maps: &map::MapContext<'_>,
     s: &crate::report::JointScenarioView,
 ) -> Page {
+    let conflict_network_maps: Vec<Value> = map::pages::conflict_set_maps(maps, s)
+        .into_iter()
+        .map(|svg| Value::from_safe_string(svg.unwrap_or_default()))
+        .collect();
     let conflict_maps: Vec<Value> = s
         .conflicts
         .iter()
@@ -683,6 +688,7 @@ fn scenario_page(
         context! {
             item => Value::from_serialize(s),
             conflict_maps => conflict_maps,
+            conflict_network_maps => conflict_network_maps,
             profile_svg => profile.map(Value::from_safe_string),
         },
     )

@@ -422,3 +422,32 @@ pub fn neighbourhoods<'a>(ctx: &MapContext<'a>) -> Neighbourhoods<'a> {
         metabolites,
     }
 }
+
+/// A network map of each minimal conflicting set of a scenario judged as
+/// a whole, in the order of `scenario.conflicts`: arrows in the direction
+/// and width of the scenario's fluxes when the scenario has them (the
+/// model's own irreversible directions have none: verdicts then).
+pub fn conflict_set_maps(
+    ctx: &MapContext<'_>,
+    scenario: &crate::report::JointScenarioView,
+) -> Vec<Option<String>> {
+    let has_fluxes = ctx.report.reactions.iter().any(|r| {
+        r.scenario_verdicts
+            .iter()
+            .any(|v| v.scenario == scenario.id && v.flux != 0.0)
+    });
+    scenario
+        .conflicts
+        .iter()
+        .enumerate()
+        .map(|(k, c)| {
+            let members: Vec<&str> = c.members.iter().map(|m| m.reaction.as_str()).collect();
+            super::reaction_set_map(
+                ctx,
+                &format!("Conflicting set {} of {}", k + 1, scenario.id),
+                &members,
+                has_fluxes.then_some(scenario.id.as_str()),
+            )
+        })
+        .collect()
+}
