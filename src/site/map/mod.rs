@@ -18,7 +18,7 @@ pub mod pages;
 pub mod render;
 
 use crate::report::{MetaboliteView, ReactionView, Report, Severity, Verdict};
-use std::collections::{BTreeMap, BTreeSet};
+use std::collections::{BTreeMap, BTreeSet, HashMap, HashSet};
 
 /// Largest number of reactions on one map: above it a group is split
 /// into parts linked to each other. 30 reaction boxes with their
@@ -134,30 +134,32 @@ pub enum Overlay<'a> {
     Scenario(&'a str),
 }
 
-/// Lookups shared by every map of a report.
+/// Lookups shared by every map of a report. Hash maps: drawing the maps
+/// of a genome-scale model looks ids up millions of times, and nothing
+/// iterates these in an order that reaches the output (common practice).
 pub struct MapContext<'a> {
     pub report: &'a Report,
-    pub side: BTreeSet<String>,
-    pub reactions: BTreeMap<&'a str, &'a ReactionView>,
-    pub metabolites: BTreeMap<&'a str, &'a MetaboliteView>,
+    pub side: HashSet<String>,
+    pub reactions: HashMap<&'a str, &'a ReactionView>,
+    pub metabolites: HashMap<&'a str, &'a MetaboliteView>,
     /// Main (non-side) metabolites of each reaction: (id, coefficient).
-    pub main_of: BTreeMap<&'a str, Vec<(&'a str, f64)>>,
+    pub main_of: HashMap<&'a str, Vec<(&'a str, f64)>>,
     /// Reactions of each main metabolite, sorted.
-    pub reactions_of: BTreeMap<&'a str, Vec<&'a str>>,
+    pub reactions_of: HashMap<&'a str, Vec<&'a str>>,
     /// (errors, warnings) among the findings naming each reaction.
-    pub counts: BTreeMap<&'a str, (usize, usize)>,
+    pub counts: HashMap<&'a str, (usize, usize)>,
 }
 
 impl<'a> MapContext<'a> {
     pub fn new(report: &'a Report) -> MapContext<'a> {
-        let side = currency::side_compounds(report);
-        let reactions: BTreeMap<&str, &ReactionView> = report
+        let side: HashSet<String> = currency::side_compounds(report).into_iter().collect();
+        let reactions: HashMap<&str, &ReactionView> = report
             .reactions
             .iter()
             .map(|r| (r.id.as_str(), r))
             .collect();
-        let mut main_of = BTreeMap::new();
-        let mut reactions_of: BTreeMap<&str, Vec<&str>> = BTreeMap::new();
+        let mut main_of = HashMap::new();
+        let mut reactions_of: HashMap<&str, Vec<&str>> = HashMap::new();
         for r in &report.reactions {
             let main: Vec<(&str, f64)> = r
                 .participants
@@ -174,7 +176,7 @@ impl<'a> MapContext<'a> {
             list.sort_unstable();
             list.dedup();
         }
-        let mut counts: BTreeMap<&str, (usize, usize)> = BTreeMap::new();
+        let mut counts: HashMap<&str, (usize, usize)> = HashMap::new();
         for f in &report.findings {
             let mut seen = BTreeSet::new();
             for s in &f.subjects {

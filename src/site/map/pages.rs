@@ -305,7 +305,10 @@ pub fn group_links(
 ) -> Vec<(usize, usize)> {
     let mut made: BTreeMap<&str, BTreeSet<usize>> = BTreeMap::new();
     let mut used: BTreeMap<&str, BTreeSet<usize>> = BTreeMap::new();
-    for (r, main) in &ctx.main_of {
+    // Sorted, so the weights below are summed in one order every run.
+    let mut by_reaction: Vec<(&&str, &Vec<(&str, f64)>)> = ctx.main_of.iter().collect();
+    by_reaction.sort_unstable_by_key(|(r, _)| **r);
+    for (r, main) in by_reaction {
         let Some(&g) = group_of.get(r) else { continue };
         for &(m, c) in main {
             if c > 0.0 {
