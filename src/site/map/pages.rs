@@ -178,7 +178,8 @@ pub fn group_maps(ctx: &MapContext<'_>) -> MapSite {
     let (groups, cut_by) = groups(ctx);
     let mut used: BTreeSet<String> = BTreeSet::from(["index".to_string()]);
     let mut entries = Vec::new();
-    let mut pages = Vec::new();
+    let pages: Vec<MapPage>;
+    let mut pending: Vec<(MapSpec<'_>, MapPage)> = Vec::new();
     // Group of every reaction, for the overview's links.
     let mut group_of: BTreeMap<&str, usize> = BTreeMap::new();
     for (g, (name, reactions)) in groups.iter().enumerate() {
@@ -251,18 +252,21 @@ pub fn group_maps(ctx: &MapContext<'_>) -> MapSite {
                 root: "../",
                 max_metabolites: None,
             };
-            let drawn = render::draw(ctx, &spec);
-            pages.push(MapPage {
-                stem: part_stems[k].clone(),
-                group: name.clone(),
-                part: k + 1,
-                parts: parts.len(),
-                part_stems: part_stems.clone(),
-                reactions: part.len(),
-                contradictions: contradictions.clone(),
-                svg: drawn.svg.clone(),
-                drawn,
-            });
+            // Drawn below, all parts in parallel.
+            pending.push((
+                spec,
+                MapPage {
+                    stem: part_stems[k].clone(),
+                    group: name.clone(),
+                    part: k + 1,
+                    parts: parts.len(),
+                    part_stems: part_stems.clone(),
+                    reactions: part.len(),
+                    contradictions: contradictions.clone(),
+                    svg: String::new(),
+                    drawn: render::Drawn::default(),
+                },
+            ));
         }
         entries.push(GroupEntry {
             name: name.clone(),
@@ -273,6 +277,18 @@ pub fn group_maps(ctx: &MapContext<'_>) -> MapSite {
             warnings,
             contradictions: contradictions.len(),
         });
+    }
+    {
+        // Each part is independent; collect keeps the order.
+        use rayon::prelude::*;
+        pages = pending
+            .into_par_iter()
+            .map(|(spec, mut page)| {
+                page.drawn = render::draw(ctx, &spec);
+                page.svg = page.drawn.svg.clone();
+                page
+            })
+            .collect();
     }
     let links = group_links(ctx, &group_of, groups.len());
     let nodes: Vec<GroupNode> = entries

@@ -158,7 +158,7 @@ fn text_width(s: &str) -> f64 {
 }
 
 /// What a drawn map is made of, for the page and for tests.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, Default)]
 pub struct Drawn {
     pub svg: String,
     pub nodes: Vec<DrawnNode>,
