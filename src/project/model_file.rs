@@ -4,6 +4,7 @@
 //! concerned, so a user fixes a file in one pass.
 
 use super::equation::{self, Arrow};
+use super::plausibility::{unit_slip, Quantity};
 use super::schema::{did_you_mean, RawEnergy, RawModelFile, RawRange, RawScenario};
 use super::sourcemap::{Segment, SourceMap};
 use super::units::{self, Kind, RawQuantity};
@@ -240,12 +241,13 @@ pub fn build(
             map: &first.map,
             out: diagnostics,
         };
-        if let Some(t) = r.quantity(t, Kind::Temperature, &path(&[K("temperature")])) {
-            match super::limits::temperature(t) {
+        if let Some(value) = r.quantity(t, Kind::Temperature, &path(&[K("temperature")])) {
+            match super::limits::temperature(value) {
                 Err(message) => {
-                    r.at(&path(&[K("temperature")]), message);
+                    r.at(&path(&[K("temperature")]), message).hint =
+                        unit_slip(Quantity::Temperature, t);
                 }
-                Ok(()) => model.temperature_k = t,
+                Ok(()) => model.temperature_k = value,
             }
         }
     }
@@ -487,7 +489,10 @@ fn compartment(
     };
     if let Some(i) = ionic {
         if let Err(message) = super::limits::ionic_strength(i) {
-            r.at(&sub("ionic_strength"), message);
+            r.at(&sub("ionic_strength"), message).hint = raw
+                .ionic_strength
+                .as_ref()
+                .and_then(|q| unit_slip(Quantity::IonicStrength, q));
             ok = false;
         }
     }
@@ -503,7 +508,7 @@ fn compartment(
         Some(q) => match r.quantity(q, Kind::Temperature, &sub("temperature")) {
             Some(t) if super::limits::temperature(t).is_err() => {
                 let message = super::limits::temperature(t).unwrap_err();
-                r.at(&sub("temperature"), message);
+                r.at(&sub("temperature"), message).hint = unit_slip(Quantity::Temperature, q);
                 None
             }
             Some(t) => Some(Some(t)),
