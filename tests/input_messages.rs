@@ -220,3 +220,186 @@ fn the_demo_has_no_implausible_values() {
     let demo = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
     assert_eq!(plausibility(&demo), Vec::<Finding>::new());
 }
+
+// ---- point 9: error messages ----
+
+#[test]
+fn a_plus_glued_to_an_id_asks_for_spaces() {
+    let s = Scratch::new(&[
+        ("p/gibbsite.yaml", SETTINGS),
+        (
+            "p/model.yaml",
+            &MODEL
+                .replace("{compartment}", "")
+                .replace("{conc}", "")
+                .replace("a_c <=> b_c", "a_c <=> b_c +a_c"),
+        ),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    // Column 36 is where `+a_c` starts in `  - {id: R1, equation: a_c <=> b_c +a_c}`.
+    assert_eq!(
+        stderr.trim_end(),
+        "p/model.yaml:8:36: error: cannot read equation of reaction `R1`: expected `+` between terms, found `+a_c`; put spaces around '+'"
+    );
+}
+
+#[test]
+fn terms_joined_without_spaces_are_named_as_such() {
+    let s = Scratch::new(&[
+        ("p/gibbsite.yaml", SETTINGS),
+        (
+            "p/model.yaml",
+            &model("", "").replace("a_c <=> b_c", "a_c+b_c <=> b_c"),
+        ),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/model.yaml:8:24: error: unknown metabolite `a_c+b_c` in equation of reaction `R1`\n  hint: put spaces around '+': `a_c + b_c`"
+    );
+}
+
+#[test]
+fn min_above_max_echoes_the_values_as_written_and_names_the_metabolite() {
+    let s = Scratch::new(&[
+        ("p/gibbsite.yaml", SETTINGS),
+        (
+            "p/model.yaml",
+            &model("", ", concentration: {min: 5 mM, max: 500 uM}"),
+        ),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/model.yaml:5:137: error: min `5 mM` is greater than max `500 uM` in the concentration range of metabolite `a_c`"
+    );
+    // The settings' default range names itself.
+    let s = Scratch::new(&[
+        (
+            "p/gibbsite.yaml",
+            "title: tiny\nmodel: model.yaml\ndefault_concentration: {min: 10 mM, max: 1 uM}\n",
+        ),
+        ("p/model.yaml", &model("", "")),
+    ]);
+    let (_, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(
+        stderr.trim_end(),
+        "p/gibbsite.yaml:3:30: error: min `10 mM` is greater than max `1 uM` in the concentration range of `default_concentration`"
+    );
+    // A side table row: the cells as written and the row's id (the
+    // column of a table position is the field number, as for every table message).
+    let s = Scratch::new(&[
+        (
+            "p/gibbsite.yaml",
+            "title: tiny\nmodel: model.yaml\ntables: conc.csv\n",
+        ),
+        ("p/model.yaml", &model("", "")),
+        ("p/conc.csv", "metabolite,min,max\nb_c,2 mM,20 uM\n"),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/conc.csv:2:2: error: min `2 mM` is greater than max `20 uM` for `b_c`"
+    );
+}
+
+#[test]
+fn a_missing_model_file_reads_like_a_missing_project() {
+    let s = Scratch::new(&[
+        ("p/gibbsite.yaml", "title: tiny\nmodel: modle.yaml\n"),
+        ("p/model.yaml", &model("", "")),
+    ]);
+    let expected = "hint: expected a project folder, gibbsite.yaml, a model .yaml or an SBML file (.xml, .xml.gz)";
+    // A project folder, an SBML file and a model file that do not exist:
+    // one form of words, one hint.
+    for missing in ["nowhere", "nowhere.xml", "nowhere.yaml"] {
+        let (code, _, stderr) = s.check(&["check", missing]);
+        assert_eq!(code, Some(2));
+        assert_eq!(
+            stderr.trim_end(),
+            format!("{missing}: error: no such file or folder\n  {expected}")
+        );
+    }
+    // A near miss gets the nearest existing name.
+    let (_, _, stderr) = s.check(&["check", "p/modl.yaml"]);
+    assert_eq!(
+        stderr.trim_end(),
+        "p/modl.yaml: error: no such file or folder\n  hint: did you mean `model.yaml`?"
+    );
+    // And so does a model file named in gibbsite.yaml.
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/gibbsite.yaml:2:8: error: model file `p/modle.yaml` not found\n  hint: did you mean `model.yaml`?"
+    );
+}
+
+#[test]
+fn a_missing_scenario_or_table_file_suggests_the_nearest_name() {
+    let s = Scratch::new(&[
+        (
+            "p/gibbsite.yaml",
+            "title: tiny\nmodel: model.yaml\nscenarios:\n  - {id: day, file: fluxes_dya.csv}\n",
+        ),
+        ("p/model.yaml", &model("", "")),
+        ("p/fluxes_day.csv", "reaction,flux\nR1,1\n"),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/fluxes_dya.csv: error: file not found\n  hint: did you mean `fluxes_day.csv`? (named at p/gibbsite.yaml:4:21)"
+    );
+    let s = Scratch::new(&[
+        (
+            "p/gibbsite.yaml",
+            "title: tiny\nmodel: model.yaml\ntables: [energies.csv]\n",
+        ),
+        ("p/model.yaml", &model("", "")),
+        ("p/energy.csv", "id,dfg\n"),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/gibbsite.yaml:3:9: error: table `p/energies.csv` not found\n  hint: did you mean `energy.csv`?"
+    );
+    // A `--data` table.
+    let s = Scratch::new(&[
+        ("p/gibbsite.yaml", SETTINGS),
+        ("p/model.yaml", &model("", "")),
+        ("p/energy.csv", "id,dfg\n"),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p", "--data", "p/enrgy.csv"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/enrgy.csv: error: table not found\n  hint: did you mean `energy.csv`?"
+    );
+    // Nothing alike: the hint says what belongs there.
+    let (_, _, stderr) = s.check(&["check", "p", "--data", "p/zzz.csv"]);
+    assert_eq!(
+        stderr.trim_end(),
+        "p/zzz.csv: error: table not found\n  hint: expected a CSV or TSV side table"
+    );
+}
+
+#[test]
+fn help_names_the_fail_on_levels_and_the_exit_codes() {
+    let out = gibbsite(Path::new("."), &["check", "--help"]);
+    assert_eq!(out.status.code(), Some(0));
+    let help = String::from_utf8_lossy(&out.stdout);
+    for line in [
+        "Lowest severity that makes the run exit with 1",
+        "warning: Exit 1 when a finding of severity error or warning is present",
+        "Exit codes:",
+        "  2  bad input or usage",
+    ] {
+        assert!(help.contains(line), "`{line}` missing from:\n{help}");
+    }
+}

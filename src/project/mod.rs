@@ -131,15 +131,17 @@ impl Project {
         if name == SETTINGS_FILE {
             return load_settings_file(path);
         }
+        if !path.exists() {
+            // The same words whatever kind of file was meant.
+            return Err(Error::input(missing(
+                Diagnostic::new(path, "no such file or folder"),
+                path,
+                "expected a project folder, gibbsite.yaml, a model .yaml or an SBML file (.xml, .xml.gz)",
+            )));
+        }
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
             let model = sbml::read_sbml(path)?;
             return Ok(Project::with_defaults(path, model));
-        }
-        if !path.exists() {
-            return Err(Error::input(Diagnostic::new(
-                path,
-                "no such file or folder; expected a project folder, gibbsite.yaml, a model .yaml or an SBML file",
-            )));
         }
         let folder = path.parent().unwrap_or(Path::new("."));
         let (model, stated, remarks) = load_model_files_stated(&[path.to_path_buf()], &[], folder)?;
@@ -185,8 +187,12 @@ impl Project {
     pub fn add_tables(&mut self, paths: &[PathBuf]) -> Result<()> {
         let mut diagnostics = Vec::new();
         for path in paths {
-            if !path.is_file() {
-                diagnostics.push(Diagnostic::new(path, "table not found"));
+            if !path.exists() {
+                diagnostics.push(missing(
+                    Diagnostic::new(path, "table not found"),
+                    path,
+                    "expected a CSV or TSV side table",
+                ));
                 continue;
             }
             if let Err(ds) = tables::apply_side_table(path, &mut self.model, &mut self.tables) {
@@ -209,6 +215,15 @@ impl Project {
             .iter()
             .map(|d| d.to_string().replacen(": error: ", ": warning: ", 1))
             .collect()
+    }
+}
+
+/// A missing file's diagnostic with its hint: the nearest existing name in
+/// its folder, else what was expected there.
+fn missing(diagnostic: Diagnostic, path: &Path, expected: &str) -> Diagnostic {
+    match read::similar_file(path) {
+        Some(name) => diagnostic.hint(format!("did you mean `{name}`?")),
+        None => diagnostic.hint(expected),
     }
 }
 
@@ -339,13 +354,15 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         };
         match read::check_confined(file) {
             Ok(_) if file.is_file() => {}
-            Ok(_) | Err(_) if !file.exists() => diagnostics.push(
+            Ok(_) | Err(_) if !file.exists() => diagnostics.push(missing(
                 Diagnostic::new(
                     settings_path,
                     format!("model file `{}` not found", file.display()),
                 )
                 .at_opt(at(&p)),
-            ),
+                file,
+                "`model` names model .yaml or SBML files (.xml, .xml.gz), relative to the project folder",
+            )),
             Ok(_) => diagnostics.push(
                 Diagnostic::new(
                     settings_path,
@@ -473,13 +490,15 @@ fn apply_side_tables(
             } else {
                 vec![Segment::Key("tables".into()), Segment::Index(i)]
             };
-            diagnostics.push(
+            diagnostics.push(missing(
                 Diagnostic::new(
                     settings_path,
                     format!("table `{}` not found", path.display()),
                 )
                 .at_opt(map.nearest(&p).map(|l| l.pair())),
-            );
+                &path,
+                "`tables` names CSV or TSV files, relative to the project folder",
+            ));
             continue;
         }
         if let Err(ds) = tables::apply_side_table(&path, model, session) {
