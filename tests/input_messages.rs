@@ -403,3 +403,54 @@ fn help_names_the_fail_on_levels_and_the_exit_codes() {
         assert!(help.contains(line), "`{line}` missing from:\n{help}");
     }
 }
+
+// ---- point 10: provenance of library values ----
+
+#[test]
+fn library_values_say_where_they_were_printed_and_how_they_were_checked() {
+    let demo = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
+    let report = Project::load(&demo).unwrap().analyse();
+    // The demo's glucose comes from the built-in library (`library: glucose`).
+    let glc = report
+        .metabolites
+        .iter()
+        .find(|m| m.id == "glc_c")
+        .expect("glc_c in the demo");
+    assert_eq!(glc.energy_origin.as_deref(), Some("library"));
+    let source = &glc.dfg_prime.as_ref().unwrap().source;
+    // The wording the test in thermo::provenance checks: the printed ΔfG°
+    // of glucose (Alberty 2003, p. 333) and the printed ΔrG° = −10.87 kJ/mol
+    // it must add up to (p. 334).
+    assert_eq!(
+        source,
+        "built-in library ('glucose'): ΔfG° printed in Alberty 2003 (Problem 6.7, p. 333); checked: the species values of glucose, G6P²⁻, HPO4²⁻ and H2O add up to the ΔrG° = −10.87 kJ/mol printed for G6P²⁻ + H2O = glucose + HPO4²⁻ (Alberty 2003, p. 334) within 0.01 kJ/mol (a check of the transcription)"
+    );
+    // Shown on the metabolite's page, and the reaction using it points there.
+    let out = tempfile::tempdir().unwrap();
+    let site = out.path().join("site");
+    gibbsite::site::render(&report, None, &site).unwrap();
+    let page = std::fs::read_to_string(site.join("metabolites/glc_c.html")).unwrap();
+    assert!(
+        page.contains("ΔfG° printed in Alberty 2003 (Problem 6.7, p. 333); checked: "),
+        "provenance missing from the glc_c page"
+    );
+    let hex = std::fs::read_to_string(site.join("reactions/HEX.html")).unwrap();
+    assert!(hex.contains("Terms from the built-in library: each metabolite’s page says where its species values were printed and how they were checked"));
+}
+
+#[test]
+fn values_recalled_from_memory_still_say_so() {
+    // Mg²⁺'s ΔfG° is recalled from memory and cannot be confirmed (it
+    // cancels from every library value); ADP's species are recalled and
+    // checked through ATP hydrolysis.
+    let mg = gibbsite::thermo::library::lookup_key("magnesium").unwrap();
+    assert_eq!(
+        mg.source(),
+        "built-in library ('magnesium'): ΔfG° of Mg²⁺ recalled from memory of Alberty 2003's species tables; not checked against a printed value: it cancels from every value computed from the library, so no printed value can confirm it"
+    );
+    let adp = gibbsite::thermo::library::lookup_key("adp")
+        .unwrap()
+        .source();
+    assert!(adp.contains("recalled from memory"), "{adp}");
+    assert!(adp.contains("reproduce the printed ΔrG'° of ATP + H2O = ADP + phosphate at pH 5–9, I = 0.25 M, at 298.15 K and 313.15 K (Alberty 2003, pp. 220 and 290) within 0.001 kJ/mol"), "{adp}");
+}
