@@ -11,11 +11,20 @@ use gibbsite::{pipeline, Error, Project};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
+/// Shown at the end of `--help` of the program and its analysing commands.
+const EXIT_CODES: &str = "\
+Exit codes:
+  0  no finding at or above the --fail-on level (or only ones already in the --baseline)
+  1  at least one such finding
+  2  bad input or usage (the message names the file, line and what was expected)
+  3  writing the output failed (disk full, permission)";
+
 #[derive(Parser)]
 #[command(
     name = "gibbsite",
     version,
-    about = "Thermodynamic consistency report for metabolic models"
+    about = "Thermodynamic consistency report for metabolic models",
+    after_help = EXIT_CODES
 )]
 struct Cli {
     #[command(subcommand)]
@@ -50,6 +59,7 @@ impl Confine {
 #[derive(Subcommand)]
 enum Command {
     /// Analyse a project and write the report site.
+    #[command(after_help = EXIT_CODES)]
     Build {
         /// Project folder, gibbsite.yaml, model .yaml or SBML file (.xml, .xml.gz).
         project: PathBuf,
@@ -57,6 +67,7 @@ enum Command {
         /// `<model>-site` in the current folder for a single file).
         #[arg(short, long)]
         output: Option<PathBuf>,
+        /// Lowest severity that makes the run exit with 1 (see "Exit codes").
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
         /// Earlier report.json: only findings not in it decide the exit code.
@@ -95,9 +106,11 @@ enum Command {
         action: CollectionAction,
     },
     /// Analyse a project and print the findings; writes nothing.
+    #[command(after_help = EXIT_CODES)]
     Check {
         /// Project folder, gibbsite.yaml, model .yaml or SBML file (.xml, .xml.gz).
         project: PathBuf,
+        /// Lowest severity that makes the run exit with 1 (see "Exit codes").
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
         /// Earlier report.json: only findings not in it decide the exit code.
@@ -137,6 +150,7 @@ enum CollectionAction {
         /// `collection merge`.
         #[arg(long, value_name = "I/N")]
         shard: Option<gibbsite::collection::shard::ShardSpec>,
+        /// Lowest severity that makes the run exit with 1 (see "Exit codes").
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
         /// Overview title (default: from the folder or list file name).
@@ -151,6 +165,7 @@ enum CollectionAction {
         /// Output folder (may be one of the slice folders).
         #[arg(short, long)]
         output: PathBuf,
+        /// Lowest severity that makes the run exit with 1 (see "Exit codes").
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
         /// Overview title (default: the one the slices were built with).
@@ -175,8 +190,11 @@ enum Format {
 /// Which findings make the run exit with 1.
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
 enum FailOn {
+    /// Exit 1 when a finding of severity error is present.
     Error,
+    /// Exit 1 when a finding of severity error or warning is present.
     Warning,
+    /// Always exit 0 after a complete run (bad input still exits 2).
     Never,
 }
 
@@ -403,5 +421,77 @@ fn exit_code(report: &Report, fail_on: FailOn, baseline: Option<&Report>) -> Exi
         ExitCode::from(1)
     } else {
         ExitCode::SUCCESS
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use clap::CommandFactory;
+
+    /// Every option, argument and possible value of every command, with the
+    /// path of commands leading to it, that has no help text.
+    fn without_help(command: &clap::Command, path: &str, out: &mut Vec<String>) {
+        for arg in command.get_arguments() {
+            let id = arg.get_id().as_str();
+            // clap's own --help and --version carry their text.
+            if id == "help" || id == "version" {
+                continue;
+            }
+            if arg.get_help().is_none() && arg.get_long_help().is_none() {
+                out.push(format!("{path} {id}"));
+            }
+            // Flags have the implicit values true/false; only real choices count.
+            let choices = if arg.get_action().takes_values() {
+                arg.get_possible_values()
+            } else {
+                Vec::new()
+            };
+            for value in choices {
+                if value.get_help().is_none() {
+                    out.push(format!("{path} {id}={}", value.get_name()));
+                }
+            }
+        }
+        for sub in command.get_subcommands() {
+            if sub.get_name() == "help" {
+                continue;
+            }
+            let sub_path = format!("{path} {}", sub.get_name());
+            if sub.get_about().is_none() {
+                out.push(format!("{sub_path} (command)"));
+            }
+            without_help(sub, &sub_path, out);
+        }
+    }
+
+    #[test]
+    fn every_command_option_and_argument_has_help_text() {
+        let command = Cli::command();
+        command.clone().debug_assert();
+        let mut missing = Vec::new();
+        without_help(&command, "gibbsite", &mut missing);
+        assert_eq!(missing, Vec::<String>::new(), "options without help text");
+    }
+
+    #[test]
+    fn help_lists_the_exit_codes() {
+        let mut command = Cli::command();
+        let help = command.render_long_help().to_string();
+        for line in [
+            "Exit codes:",
+            "  1  at least one such finding",
+            "  2  bad input",
+            "  3  writing the output failed",
+        ] {
+            assert!(help.contains(line), "`{line}` missing from:\n{help}");
+        }
+        let check = command.find_subcommand_mut("check").unwrap();
+        let help = check.render_long_help().to_string();
+        assert!(help.contains("Exit codes:"), "{help}");
+        assert!(
+            help.contains("Lowest severity that makes the run exit with 1"),
+            "{help}"
+        );
     }
 }

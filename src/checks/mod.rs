@@ -11,6 +11,7 @@ pub mod bounds_audit;
 pub mod compartment_conditions;
 pub mod copied_energy;
 pub mod energy_cycles;
+pub mod input_plausibility;
 pub mod internal_loops;
 pub mod missing_energy;
 pub mod scenario_directions;
@@ -30,6 +31,7 @@ pub struct Check {
 
 /// Every check, in the order the overview lists them.
 pub const REGISTRY: &[Check] = &[
+    input_plausibility::CHECK,
     balance::CHECK,
     validity::CHECK,
     copied_energy::CHECK,

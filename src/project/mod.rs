@@ -9,6 +9,7 @@ pub mod conditions;
 pub mod equation;
 pub mod limits;
 pub mod model_file;
+pub mod plausibility;
 pub mod read;
 pub mod sbml;
 pub mod schema;
@@ -65,6 +66,9 @@ pub struct Settings {
     /// Metabolite ids the maps always draw as side labels / as nodes.
     pub map_side: Vec<String>,
     pub map_main: Vec<String>,
+    /// Values that loaded but are implausible or look like unit slips,
+    /// with their file and line (reported by `checks::input_plausibility`).
+    pub input_remarks: Vec<plausibility::Remark>,
 }
 
 /// A Markdown note shown in the report.
@@ -127,19 +131,23 @@ impl Project {
         if name == SETTINGS_FILE {
             return load_settings_file(path);
         }
+        if !path.exists() {
+            // The same words whatever kind of file was meant.
+            return Err(Error::input(missing(
+                Diagnostic::new(path, "no such file or folder"),
+                path,
+                "expected a project folder, gibbsite.yaml, a model .yaml or an SBML file (.xml, .xml.gz)",
+            )));
+        }
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
             let model = sbml::read_sbml(path)?;
             return Ok(Project::with_defaults(path, model));
         }
-        if !path.exists() {
-            return Err(Error::input(Diagnostic::new(
-                path,
-                "no such file or folder; expected a project folder, gibbsite.yaml, a model .yaml or an SBML file",
-            )));
-        }
-        let (model, stated) = load_model_files_stated(&[path.to_path_buf()], &[])?;
+        let folder = path.parent().unwrap_or(Path::new("."));
+        let (model, stated, remarks) = load_model_files_stated(&[path.to_path_buf()], &[], folder)?;
         let mut project = Project::with_defaults(path, model);
         project.settings.unset_conditions = unset_compartments(&project.model, &stated);
+        project.settings.input_remarks = remarks;
         Ok(project)
     }
 
@@ -166,6 +174,7 @@ impl Project {
                 table_reactions: Default::default(),
                 map_side: Vec::new(),
                 map_main: Vec::new(),
+                input_remarks: Vec::new(),
             },
             model,
             notes: Vec::new(),
@@ -178,8 +187,12 @@ impl Project {
     pub fn add_tables(&mut self, paths: &[PathBuf]) -> Result<()> {
         let mut diagnostics = Vec::new();
         for path in paths {
-            if !path.is_file() {
-                diagnostics.push(Diagnostic::new(path, "table not found"));
+            if !path.exists() {
+                diagnostics.push(missing(
+                    Diagnostic::new(path, "table not found"),
+                    path,
+                    "expected a CSV or TSV side table",
+                ));
                 continue;
             }
             if let Err(ds) = tables::apply_side_table(path, &mut self.model, &mut self.tables) {
@@ -202,6 +215,15 @@ impl Project {
             .iter()
             .map(|d| d.to_string().replacen(": error: ", ": warning: ", 1))
             .collect()
+    }
+}
+
+/// A missing file's diagnostic with its hint: the nearest existing name in
+/// its folder, else what was expected there.
+fn missing(diagnostic: Diagnostic, path: &Path, expected: &str) -> Diagnostic {
+    match read::similar_file(path) {
+        Some(name) => diagnostic.hint(format!("did you mean `{name}`?")),
+        None => diagnostic.hint(expected),
     }
 }
 
@@ -332,13 +354,15 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         };
         match read::check_confined(file) {
             Ok(_) if file.is_file() => {}
-            Ok(_) | Err(_) if !file.exists() => diagnostics.push(
+            Ok(_) | Err(_) if !file.exists() => diagnostics.push(missing(
                 Diagnostic::new(
                     settings_path,
                     format!("model file `{}` not found", file.display()),
                 )
                 .at_opt(at(&p)),
-            ),
+                file,
+                "`model` names model .yaml or SBML files (.xml, .xml.gz), relative to the project folder",
+            )),
             Ok(_) => diagnostics.push(
                 Diagnostic::new(
                     settings_path,
@@ -367,7 +391,13 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         .enumerate()
         .map(|(i, s)| (settings_path.to_path_buf(), &map, s.clone(), i))
         .collect();
-    let (mut model, mut stated) = load_model_files_stated(&model_files, &extra)?;
+    let (mut model, mut stated, mut input_remarks) =
+        load_model_files_stated(&model_files, &extra, &root)?;
+    input_remarks.extend(plausibility::scan_settings(
+        &shown_relative(settings_path, &root),
+        &raw,
+        &map,
+    ));
     let given = conditions::validate(
         settings_path,
         &map,
@@ -423,6 +453,7 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
             table_reactions: session.reactions_with_energy.clone(),
             map_side: raw.maps.as_ref().map_or(Vec::new(), |m| m.side.clone()),
             map_main: raw.maps.as_ref().map_or(Vec::new(), |m| m.main.clone()),
+            input_remarks,
         },
         model,
         notes,
@@ -459,13 +490,15 @@ fn apply_side_tables(
             } else {
                 vec![Segment::Key("tables".into()), Segment::Index(i)]
             };
-            diagnostics.push(
+            diagnostics.push(missing(
                 Diagnostic::new(
                     settings_path,
                     format!("table `{}` not found", path.display()),
                 )
                 .at_opt(map.nearest(&p).map(|l| l.pair())),
-            );
+                &path,
+                "`tables` names CSV or TSV files, relative to the project folder",
+            ));
             continue;
         }
         if let Err(ds) = tables::apply_side_table(&path, model, session) {
@@ -570,19 +603,36 @@ pub fn load_model_files(
     files: &[PathBuf],
     extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
 ) -> Result<Model> {
-    load_model_files_stated(files, extra_scenarios).map(|(model, _)| model)
+    let folder = Path::new(".");
+    load_model_files_stated(files, extra_scenarios, folder).map(|(model, ..)| model)
+}
+
+/// A file as shown in warnings: relative to the project folder when inside it.
+fn shown_relative(file: &Path, folder: &Path) -> String {
+    file.strip_prefix(folder)
+        .unwrap_or(file)
+        .display()
+        .to_string()
 }
 
 /// As [`load_model_files`], with the ids of compartments whose model file
-/// states a pH or a potential (none for SBML, which has no such data).
+/// states a pH or a potential (none for SBML, which has no such data), and
+/// the implausible values of the files (shown relative to `folder`).
+type LoadedModel = (
+    Model,
+    std::collections::BTreeSet<String>,
+    Vec<plausibility::Remark>,
+);
+
 fn load_model_files_stated(
     files: &[PathBuf],
     extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
-) -> Result<(Model, std::collections::BTreeSet<String>)> {
+    folder: &Path,
+) -> Result<LoadedModel> {
     if let [single] = files {
         let name = single.to_string_lossy().to_lowercase();
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
-            return Ok((sbml::read_sbml(single)?, Default::default()));
+            return Ok((sbml::read_sbml(single)?, Default::default(), Vec::new()));
         }
     }
     let mut diagnostics = Vec::new();
@@ -616,8 +666,12 @@ fn load_model_files_stated(
         .filter(|c| c.ph.is_some() || c.potential.is_some())
         .map(|c| c.id.clone())
         .collect();
+    let remarks = sources
+        .iter()
+        .flat_map(|s| plausibility::scan_model(&shown_relative(&s.file, folder), &s.raw, &s.map))
+        .collect();
     match model {
-        Some(m) if diagnostics.is_empty() => Ok((m, stated)),
+        Some(m) if diagnostics.is_empty() => Ok((m, stated, remarks)),
         _ => {
             diagnostics.sort();
             diagnostics.dedup();

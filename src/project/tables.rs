@@ -521,9 +521,18 @@ pub fn apply_side_table_bytes(
                 (Some(a), Some(b)) if a > 0.0 && b > 0.0 && a <= b => Some((a, b)),
                 (None, None) => None,
                 (Some(a), Some(b)) if a > b => {
+                    // Echo the cells as written (a unit slip shows itself).
+                    let written = |name: &str| cell(name).unwrap_or("").trim().to_string();
                     row_problems.push(
-                        Diagnostic::new(path, format!("min ({a} M) is greater than max ({b} M)"))
-                            .at(line, 1),
+                        Diagnostic::new(
+                            path,
+                            format!(
+                                "min `{}` is greater than max `{}` for `{id}`",
+                                written("min"),
+                                written("max")
+                            ),
+                        )
+                        .at(line, column("min").map_or(1, |c| c + 1)),
                     );
                     None
                 }
