@@ -14,6 +14,7 @@ pub mod loops;
 pub mod lp;
 pub mod model;
 pub mod network;
+pub mod outcome;
 pub mod project;
 pub mod report;
 pub mod scenarios;

@@ -8,6 +8,7 @@
 pub mod conditions;
 pub mod equation;
 pub mod limits;
+pub mod locations;
 pub mod model_file;
 pub mod read;
 pub mod sbml;
@@ -92,6 +93,8 @@ pub struct Project {
     pub notes: Vec<Note>,
     /// Side tables applied so far (their claims and warnings).
     pub tables: tables::TableSession,
+    /// Where each model element is written (for SARIF regions).
+    pub source_lines: locations::SourceLines,
 }
 
 impl Project {
@@ -128,8 +131,10 @@ impl Project {
             return load_settings_file(path);
         }
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
-            let model = sbml::read_sbml(path)?;
-            return Ok(Project::with_defaults(path, model));
+            let (model, lines) = sbml::read_sbml_located(path)?;
+            let mut project = Project::with_defaults(path, model);
+            project.source_lines = lines;
+            return Ok(project);
         }
         if !path.exists() {
             return Err(Error::input(Diagnostic::new(
@@ -137,8 +142,9 @@ impl Project {
                 "no such file or folder; expected a project folder, gibbsite.yaml, a model .yaml or an SBML file",
             )));
         }
-        let (model, stated) = load_model_files_stated(&[path.to_path_buf()], &[])?;
+        let (model, stated, lines) = load_model_files_stated(&[path.to_path_buf()], &[])?;
         let mut project = Project::with_defaults(path, model);
+        project.source_lines = lines;
         project.settings.unset_conditions = unset_compartments(&project.model, &stated);
         Ok(project)
     }
@@ -170,6 +176,7 @@ impl Project {
             model,
             notes: Vec::new(),
             tables: Default::default(),
+            source_lines: Default::default(),
         }
     }
 
@@ -367,7 +374,7 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         .enumerate()
         .map(|(i, s)| (settings_path.to_path_buf(), &map, s.clone(), i))
         .collect();
-    let (mut model, mut stated) = load_model_files_stated(&model_files, &extra)?;
+    let (mut model, mut stated, source_lines) = load_model_files_stated(&model_files, &extra)?;
     let given = conditions::validate(
         settings_path,
         &map,
@@ -427,6 +434,7 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         model,
         notes,
         tables: session,
+        source_lines,
     })
 }
 
@@ -570,7 +578,7 @@ pub fn load_model_files(
     files: &[PathBuf],
     extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
 ) -> Result<Model> {
-    load_model_files_stated(files, extra_scenarios).map(|(model, _)| model)
+    load_model_files_stated(files, extra_scenarios).map(|(model, _, _)| model)
 }
 
 /// As [`load_model_files`], with the ids of compartments whose model file
@@ -578,15 +586,21 @@ pub fn load_model_files(
 fn load_model_files_stated(
     files: &[PathBuf],
     extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
-) -> Result<(Model, std::collections::BTreeSet<String>)> {
+) -> Result<(
+    Model,
+    std::collections::BTreeSet<String>,
+    locations::SourceLines,
+)> {
     if let [single] = files {
         let name = single.to_string_lossy().to_lowercase();
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
-            return Ok((sbml::read_sbml(single)?, Default::default()));
+            let (model, lines) = sbml::read_sbml_located(single)?;
+            return Ok((model, Default::default(), lines));
         }
     }
     let mut diagnostics = Vec::new();
     let mut sources = Vec::new();
+    let mut texts = Vec::new();
     for file in files {
         let text = match read_text(file) {
             Ok(t) => t,
@@ -603,6 +617,7 @@ fn load_model_files_stated(
                 raw: parsed.value,
                 map: parsed.map,
             });
+            texts.push(text);
         }
     }
     let model = if sources.len() == files.len() {
@@ -616,8 +631,23 @@ fn load_model_files_stated(
         .filter(|c| c.ph.is_some() || c.potential.is_some())
         .map(|c| c.id.clone())
         .collect();
+    let mut lines = locations::SourceLines::default();
+    for (source, text) in sources.iter().zip(texts) {
+        let raw = &source.raw;
+        let ids = |items: Vec<&String>| items.into_iter().cloned().collect::<Vec<_>>();
+        lines.add_yaml(
+            &source.file,
+            text,
+            vec![
+                ids(raw.reactions.iter().map(|r| &r.id).collect()),
+                ids(raw.metabolites.iter().map(|m| &m.id).collect()),
+                ids(raw.compartments.iter().map(|c| &c.id).collect()),
+                ids(raw.scenarios.iter().map(|s| &s.id).collect()),
+            ],
+        );
+    }
     match model {
-        Some(m) if diagnostics.is_empty() => Ok((m, stated)),
+        Some(m) if diagnostics.is_empty() => Ok((m, stated, lines)),
         _ => {
             diagnostics.sort();
             diagnostics.dedup();
