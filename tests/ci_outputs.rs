@@ -326,11 +326,35 @@ fn sarif_of_the_yaml_demo_is_valid_located_and_has_a_rule_per_kind() {
         let id = r["id"].as_str().unwrap();
         assert_eq!(
             r["helpUri"],
-            format!("https://reports.example.org/lakeside/findings.html#kind-{id}")
+            format!("https://reports.example.org/lakeside/kinds.html#kind-{id}")
         );
         let help = r["help"]["text"].as_str().unwrap();
         assert!(help.len() > 40 && help.contains("Check “"), "{id}: {help}");
         assert_ne!(r["shortDescription"]["text"], r["fullDescription"]["text"]);
+    }
+    // Each help link lands on its kind's entry of the site's kinds page.
+    let tmp = tempfile::tempdir().unwrap();
+    gibbsite::site::render(&report, None, &tmp.path().join("site")).unwrap();
+    let kinds_page = std::fs::read_to_string(tmp.path().join("site/kinds.html")).unwrap();
+    for r in rules {
+        let uri = r["helpUri"].as_str().unwrap();
+        let fragment = uri.split_once('#').unwrap().1;
+        let at = kinds_page
+            .find(&format!("<dt id=\"{fragment}\">"))
+            .unwrap_or_else(|| panic!("{fragment} not on kinds.html"));
+        let entry = &kinds_page[at..at + kinds_page[at..].find("</dd>").unwrap()];
+        let help = r["help"]["text"].as_str().unwrap();
+        let first = help.split(". ").next().unwrap();
+        assert!(
+            entry.contains(
+                &first
+                    .replace('&', "&amp;")
+                    .replace('<', "&lt;")
+                    .replace('>', "&gt;")
+                    .replace('\'', "&#x27;")
+            ),
+            "{entry}\n{first}"
+        );
     }
     let model = std::fs::read_to_string(demo().join("model.yaml")).unwrap();
     let model_lines: Vec<&str> = model.lines().collect();

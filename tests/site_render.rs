@@ -739,6 +739,7 @@ fn all_expected_files_exist_and_nothing_else() {
         MARKER_FILE,
         "index.html",
         "findings.html",
+        "kinds.html",
         "coverage.html",
         "report.json",
         "assets/style.css",

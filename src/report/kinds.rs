@@ -148,6 +148,34 @@ const HELP: &[KindHelp] = &[
     },
 ];
 
+/// One row of the site's `kinds.html` (the page SARIF rules link to).
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct KindRow {
+    pub kind: &'static str,
+    pub summary: &'static str,
+    pub help: &'static str,
+    pub check: &'static str,
+    /// Findings of this kind in the report.
+    pub findings: usize,
+}
+
+/// Every registered kind with its help and count in `report`.
+pub fn site_rows(report: &Report) -> Vec<KindRow> {
+    all_kinds()
+        .into_iter()
+        .map(|kind| {
+            let (check, description) = check_of(kind).unwrap_or(("", ""));
+            KindRow {
+                kind,
+                summary: help(kind).map_or(description, |h| h.summary),
+                help: help(kind).map_or("", |h| h.help),
+                check,
+                findings: report.summary.by_kind.get(kind).copied().unwrap_or(0),
+            }
+        })
+        .collect()
+}
+
 /// Which kinds `--only` and `--skip` keep.
 #[derive(Debug, Clone, Default, PartialEq, Eq)]
 pub struct KindFilter {

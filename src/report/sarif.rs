@@ -123,10 +123,11 @@ fn rule_name(kind: &str) -> String {
         .collect()
 }
 
-/// `<report-url>/findings.html#kind-<kind>` when the report's address is known.
+/// `<report-url>/kinds.html#kind-<kind>` (the site's page on finding kinds)
+/// when the report's address is known.
 pub fn help_uri(kind: &str, options: &SarifOptions) -> Option<String> {
     let base = options.report_url.as_deref()?.trim_end_matches('/');
-    Some(format!("{base}/findings.html#kind-{kind}"))
+    Some(format!("{base}/kinds.html#kind-{kind}"))
 }
 
 fn result(
