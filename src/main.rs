@@ -164,7 +164,7 @@ enum Command {
         sarif_root: PathBuf,
         /// Absolute URL where the report site is published; SARIF rules
         /// link to their kind in it.
-        #[arg(long, value_name = "URL")]
+        #[arg(long, value_name = "URL", value_parser = gibbsite::report::sarif::parse_report_url)]
         report_url: Option<String>,
     },
 }

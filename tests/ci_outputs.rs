@@ -519,6 +519,17 @@ fn sarif_paths_follow_the_sarif_root() {
         ]),
         "../../projects/lakeside/model.yaml"
     );
+    // Help links must be absolute: a relative report address is refused.
+    let (code, _, err) = run(&[
+        "check",
+        "projects/lakeside",
+        "--format",
+        "sarif",
+        "--report-url",
+        "site/",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("expected an absolute URL"), "{err}");
     assert_eq!(
         sarif::relative_uri(Path::new("/a/b c/m#1.yaml"), Path::new("/a")),
         "b%20c/m%231.yaml"

@@ -123,6 +123,23 @@ fn rule_name(kind: &str) -> String {
         .collect()
 }
 
+/// Checks `--report-url`: SARIF help links must be absolute URIs
+/// (`scheme://…`, RFC 3986), without spaces.
+pub fn parse_report_url(text: &str) -> Result<String, String> {
+    let absolute = text.split_once("://").is_some_and(|(scheme, rest)| {
+        !rest.is_empty()
+            && scheme.starts_with(|c: char| c.is_ascii_alphabetic())
+            && scheme
+                .chars()
+                .all(|c| c.is_ascii_alphanumeric() || "+-.".contains(c))
+    });
+    if absolute && !text.chars().any(char::is_whitespace) {
+        Ok(text.to_string())
+    } else {
+        Err("expected an absolute URL such as https://example.org/report/ (SARIF needs absolute help links)".to_string())
+    }
+}
+
 /// `<report-url>/kinds.html#kind-<kind>` (the site's page on finding kinds)
 /// when the report's address is known.
 pub fn help_uri(kind: &str, options: &SarifOptions) -> Option<String> {
