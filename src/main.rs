@@ -6,7 +6,8 @@
 //! output failed (disk full, permission).
 
 use clap::{Parser, Subcommand, ValueEnum};
-use gibbsite::report::{baseline, Report, Severity};
+use gibbsite::outcome::Outcome;
+use gibbsite::report::{baseline, kinds::KindFilter, Report};
 use gibbsite::{pipeline, Error, Project};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
@@ -56,6 +57,47 @@ impl Confine {
     }
 }
 
+/// Which findings count, and against which baseline (build and check).
+#[derive(clap::Args)]
+struct Findings {
+    /// Keep only findings of this kind (repeatable); the others are left
+    /// out of every output and of the exit code.
+    #[arg(long, value_name = "KIND", value_parser = kind_parser())]
+    only: Vec<String>,
+    /// Leave out findings of this kind (repeatable).
+    #[arg(long, value_name = "KIND", value_parser = kind_parser())]
+    skip: Vec<String>,
+    /// Accept a --baseline made from a model with a different id.
+    #[arg(long)]
+    baseline_any_model: bool,
+}
+
+fn kind_parser() -> clap::builder::PossibleValuesParser {
+    clap::builder::PossibleValuesParser::new(gibbsite::report::kinds::all_kinds())
+}
+
+impl Findings {
+    /// Filter the report, check the baseline's model, decide pass or fail.
+    fn settle(
+        &self,
+        report: &mut Report,
+        fail_on: FailOn,
+        baseline: Option<(&Path, &Report)>,
+    ) -> Result<Outcome, Error> {
+        let filter = KindFilter::new(&self.only, &self.skip)
+            .map_err(|e| Error::input(gibbsite::Diagnostic::new(Path::new("--only/--skip"), e)))?;
+        filter.apply(report);
+        if let Some((path, b)) = baseline {
+            baseline::check_model(report, b, path, self.baseline_any_model)?;
+        }
+        Ok(Outcome::decide(
+            report,
+            fail_on.level(),
+            baseline.map(|(_, b)| b),
+        ))
+    }
+}
+
 #[derive(Subcommand)]
 enum Command {
     /// Analyse a project and write the report site.
@@ -83,6 +125,8 @@ enum Command {
         no_project_theme: bool,
         #[command(flatten)]
         confine: Confine,
+        #[command(flatten)]
+        findings: Findings,
     },
     /// Convert an SBML model (.xml or .xml.gz) into a gibbsite project folder.
     Import {
@@ -125,6 +169,16 @@ enum Command {
         format: Format,
         #[command(flatten)]
         confine: Confine,
+        #[command(flatten)]
+        findings: Findings,
+        /// Folder that SARIF file paths are relative to (the repository
+        /// root in CI; default: the current folder).
+        #[arg(long, value_name = "DIR", default_value = ".")]
+        sarif_root: PathBuf,
+        /// Absolute URL where the report site is published; SARIF rules
+        /// link to their kind in it.
+        #[arg(long, value_name = "URL", value_parser = gibbsite::report::sarif::parse_report_url)]
+        report_url: Option<String>,
     },
 }
 
@@ -177,7 +231,7 @@ enum CollectionAction {
 /// Output of `check`.
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
 enum Format {
-    /// One line per finding.
+    /// Findings grouped by kind with counts, then a pass/fail line.
     Text,
     /// The full report (as report.json).
     Json,
@@ -185,6 +239,17 @@ enum Format {
     Sarif,
     /// A Markdown summary for CI job pages.
     Markdown,
+}
+
+impl FailOn {
+    fn level(self) -> gibbsite::collection::FailLevel {
+        use gibbsite::collection::FailLevel;
+        match self {
+            FailOn::Error => FailLevel::Error,
+            FailOn::Warning => FailLevel::Warning,
+            FailOn::Never => FailLevel::Never,
+        }
+    }
 }
 
 /// Which findings make the run exit with 1.
@@ -236,10 +301,19 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             data,
             no_project_theme,
             confine,
+            findings,
         } => {
-            let baseline = baseline.as_deref().map(baseline::load).transpose()?;
+            let baseline = baseline
+                .as_deref()
+                .map(|p| Ok::<_, Error>((p, baseline::load(p)?)));
+            let baseline = baseline.transpose()?;
             let loaded = load(&project, &data, &confine.options())?;
-            let report = pipeline::report_of(&loaded);
+            let mut report = pipeline::report_of(&loaded);
+            let outcome = findings.settle(
+                &mut report,
+                fail_on,
+                baseline.as_ref().map(|(p, b)| (*p, b)),
+            )?;
             let out = output.unwrap_or_else(|| default_output(&project));
             let theme = if no_project_theme {
                 None
@@ -249,7 +323,8 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             pipeline::render(&report, theme, &out)?;
             print_summary(&report);
             eprintln!("site written to {}", out.display());
-            Ok(exit_code(&report, fail_on, baseline.as_ref()))
+            println!("{}", outcome.line());
+            Ok(ExitCode::from(outcome.exit_code()))
         }
         Command::Import {
             model,
@@ -286,32 +361,47 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             format,
             data,
             confine,
+            findings,
+            sarif_root,
+            report_url,
         } => {
-            let baseline = baseline.as_deref().map(baseline::load).transpose()?;
+            let baseline = baseline
+                .as_deref()
+                .map(|p| Ok::<_, Error>((p, baseline::load(p)?)));
+            let baseline = baseline.transpose()?;
             let loaded = load(&project, &data, &confine.options())?;
-            let report = pipeline::report_of(&loaded);
-            let model_file = loaded
-                .settings
-                .model_files
-                .first()
-                .map(|p| p.to_string_lossy().into_owned());
+            let mut report = pipeline::report_of(&loaded);
+            let outcome = findings.settle(
+                &mut report,
+                fail_on,
+                baseline.as_ref().map(|(p, b)| (*p, b)),
+            )?;
             match format {
                 Format::Text => print!(
-                    "{}{}",
-                    gibbsite::report::text::findings_text(&report),
-                    gibbsite::report::text::scenario_verdicts_text(&report)
+                    "{}",
+                    gibbsite::report::text::grouped_text(&report, &outcome)
                 ),
                 Format::Json => print!("{}", gibbsite::report::json::to_json(&report)),
-                Format::Sarif => print!(
-                    "{}",
-                    gibbsite::report::sarif::to_sarif(&report, model_file.as_deref())
-                ),
-                Format::Markdown => {
-                    print!("{}", gibbsite::report::summary::to_markdown(&report, 50))
+                Format::Sarif => {
+                    let options = gibbsite::report::sarif::SarifOptions {
+                        root: sarif_root,
+                        report_url,
+                        model_files: loaded.settings.model_files.clone(),
+                        lines: loaded.source_lines.locate(),
+                    };
+                    print!("{}", gibbsite::report::sarif::to_sarif(&report, &options))
                 }
+                Format::Markdown => print!(
+                    "{}",
+                    gibbsite::report::summary::to_markdown(&report, &outcome, &[])
+                ),
             }
-            print_summary(&report);
-            Ok(exit_code(&report, fail_on, baseline.as_ref()))
+            // Text and Markdown end with the pass/fail line themselves.
+            if matches!(format, Format::Json | Format::Sarif) {
+                print_summary(&report);
+                eprintln!("{}", outcome.line());
+            }
+            Ok(ExitCode::from(outcome.exit_code()))
         }
     }
 }
@@ -330,12 +420,8 @@ fn load(
 }
 
 fn run_collection(action: CollectionAction) -> Result<ExitCode, Error> {
-    use gibbsite::collection::{self, run::Limits, shard::ShardSpec, FailLevel};
-    let level = |f: FailOn| match f {
-        FailOn::Error => FailLevel::Error,
-        FailOn::Warning => FailLevel::Warning,
-        FailOn::Never => FailLevel::Never,
-    };
+    use gibbsite::collection::{self, run::Limits, shard::ShardSpec};
+    let level = FailOn::level;
     let finished = match action {
         CollectionAction::Build {
             input,
@@ -398,30 +484,6 @@ fn print_summary(report: &Report) {
         report.summary.metabolites,
         report.summary.scenarios
     );
-}
-
-/// 1 when a finding at or above the `fail_on` level exists (with a
-/// baseline: one that the baseline does not have).
-fn exit_code(report: &Report, fail_on: FailOn, baseline: Option<&Report>) -> ExitCode {
-    let counted: Vec<&gibbsite::report::Finding> = match baseline {
-        Some(b) => {
-            let new = baseline::new_findings(report, b);
-            eprintln!("{} findings are new since the baseline", new.len());
-            new
-        }
-        None => report.findings.iter().collect(),
-    };
-    let at_least = |s: Severity| counted.iter().filter(|f| f.severity <= s).count() > 0;
-    let failing = match fail_on {
-        FailOn::Never => false,
-        FailOn::Error => at_least(Severity::Error),
-        FailOn::Warning => at_least(Severity::Warning),
-    };
-    if failing {
-        ExitCode::from(1)
-    } else {
-        ExitCode::SUCCESS
-    }
 }
 
 #[cfg(test)]

@@ -745,6 +745,7 @@ fn all_expected_files_exist_and_nothing_else() {
         MARKER_FILE,
         "index.html",
         "findings.html",
+        "kinds.html",
         "coverage.html",
         "report.json",
         "assets/style.css",
@@ -1683,6 +1684,9 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
 
     // Errors and warnings of the demo (see tests/demo.rs for why each is
     // there), in the overview's table: severity, kind, subject, scenario.
+    // The loop's id comes from its member set (loops::ids).
+    let loop_id = gibbsite::loops::ids::member_set_id("loop", ["PEPS", "PYK"]);
+    let loop_subjects = format!("{loop_id}, PYK, PEPS");
     let index = String::from_utf8(tree["index.html"].clone()).unwrap();
     let rows = table_rows(&index, "data findings");
     let listed: Vec<[&str; 4]> = rows[1..]
@@ -1702,7 +1706,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
                 "PLC1, PLC2, PLC3",
                 "bloom"
             ],
-            ["▲ warning", "internal-loop", "loop-1, PYK, PEPS", "—"],
+            ["▲ warning", "internal-loop", loop_subjects.as_str(), "—"],
             ["▲ warning", "scenario-internal-cycle", "PYK, PEPS", "refit"],
             ["▲ warning", "scenario-marginal", "GAPD", "bloom"],
             ["▲ warning", "scenario-marginal", "GAPD", "noon"],
@@ -1720,7 +1724,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
 
     // The demo's one loop (PYK and PEPS, each other's reverse): its subject
     // links to its page, the loop index lists it with the report's numbers.
-    assert!(index.contains("<a href=\"loops/loop-1.html\">loop-1</a>"));
+    assert!(index.contains(&format!("<a href=\"loops/{loop_id}.html\">{loop_id}</a>")));
     let view = &report
         .loops
         .as_ref()
@@ -1734,7 +1738,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
     assert_eq!(
         rows[1][..5],
         [
-            "loop-1",
+            loop_id.as_str(),
             "2",
             "PEPS forward, PYK forward",
             &format!("{} ± {}", energy(sum), energy(sigma)),
@@ -1746,7 +1750,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
     // over a cycle telescopes to zero).
     assert_eq!(energy(sum), "0.00");
     assert!(text_of(&loops).contains("Loop-capable reactions 2"));
-    let page = String::from_utf8(tree["loops/loop-1.html"].clone()).unwrap();
+    let page = String::from_utf8(tree[&format!("loops/{loop_id}.html")].clone()).unwrap();
     let svg = svg_block(&page, "loop-map");
     // Drawn from the first by id.
     assert_eq!(svg_texts(svg, "node-id"), ["PEPS", "PYK"]);

@@ -8,6 +8,7 @@
 pub mod conditions;
 pub mod equation;
 pub mod limits;
+pub mod locations;
 pub mod model_file;
 pub mod plausibility;
 pub mod read;
@@ -96,6 +97,8 @@ pub struct Project {
     pub notes: Vec<Note>,
     /// Side tables applied so far (their claims and warnings).
     pub tables: tables::TableSession,
+    /// Where each model element is written (for SARIF regions).
+    pub source_lines: locations::SourceLines,
 }
 
 impl Project {
@@ -140,12 +143,16 @@ impl Project {
             )));
         }
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
-            let model = sbml::read_sbml(path)?;
-            return Ok(Project::with_defaults(path, model));
+            let (model, lines) = sbml::read_sbml_located(path)?;
+            let mut project = Project::with_defaults(path, model);
+            project.source_lines = lines;
+            return Ok(project);
         }
         let folder = path.parent().unwrap_or(Path::new("."));
-        let (model, stated, remarks) = load_model_files_stated(&[path.to_path_buf()], &[], folder)?;
+        let (model, stated, remarks, lines) =
+            load_model_files_stated(&[path.to_path_buf()], &[], folder)?;
         let mut project = Project::with_defaults(path, model);
+        project.source_lines = lines;
         project.settings.unset_conditions = unset_compartments(&project.model, &stated);
         project.settings.input_remarks = remarks;
         Ok(project)
@@ -179,6 +186,7 @@ impl Project {
             model,
             notes: Vec::new(),
             tables: Default::default(),
+            source_lines: Default::default(),
         }
     }
 
@@ -391,7 +399,7 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         .enumerate()
         .map(|(i, s)| (settings_path.to_path_buf(), &map, s.clone(), i))
         .collect();
-    let (mut model, mut stated, mut input_remarks) =
+    let (mut model, mut stated, mut input_remarks, source_lines) =
         load_model_files_stated(&model_files, &extra, &root)?;
     input_remarks.extend(plausibility::scan_settings(
         &shown_relative(settings_path, &root),
@@ -458,6 +466,7 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         model,
         notes,
         tables: session,
+        source_lines,
     })
 }
 
@@ -622,6 +631,7 @@ type LoadedModel = (
     Model,
     std::collections::BTreeSet<String>,
     Vec<plausibility::Remark>,
+    locations::SourceLines,
 );
 
 fn load_model_files_stated(
@@ -632,11 +642,13 @@ fn load_model_files_stated(
     if let [single] = files {
         let name = single.to_string_lossy().to_lowercase();
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
-            return Ok((sbml::read_sbml(single)?, Default::default(), Vec::new()));
+            let (model, lines) = sbml::read_sbml_located(single)?;
+            return Ok((model, Default::default(), Vec::new(), lines));
         }
     }
     let mut diagnostics = Vec::new();
     let mut sources = Vec::new();
+    let mut texts = Vec::new();
     for file in files {
         let text = match read_text(file) {
             Ok(t) => t,
@@ -653,6 +665,7 @@ fn load_model_files_stated(
                 raw: parsed.value,
                 map: parsed.map,
             });
+            texts.push(text);
         }
     }
     let model = if sources.len() == files.len() {
@@ -670,8 +683,23 @@ fn load_model_files_stated(
         .iter()
         .flat_map(|s| plausibility::scan_model(&shown_relative(&s.file, folder), &s.raw, &s.map))
         .collect();
+    let mut lines = locations::SourceLines::default();
+    for (source, text) in sources.iter().zip(texts) {
+        let raw = &source.raw;
+        let ids = |items: Vec<&String>| items.into_iter().cloned().collect::<Vec<_>>();
+        lines.add_yaml(
+            &source.file,
+            text,
+            vec![
+                ids(raw.reactions.iter().map(|r| &r.id).collect()),
+                ids(raw.metabolites.iter().map(|m| &m.id).collect()),
+                ids(raw.compartments.iter().map(|c| &c.id).collect()),
+                ids(raw.scenarios.iter().map(|s| &s.id).collect()),
+            ],
+        );
+    }
     match model {
-        Some(m) if diagnostics.is_empty() => Ok((m, stated, remarks)),
+        Some(m) if diagnostics.is_empty() => Ok((m, stated, remarks, lines)),
         _ => {
             diagnostics.sort();
             diagnostics.dedup();

@@ -9,6 +9,7 @@ pub mod baseline;
 pub mod build;
 pub mod coverage;
 pub mod json;
+pub mod kinds;
 pub mod sarif;
 pub mod scenario_build;
 pub mod scenario_view;
@@ -139,7 +140,8 @@ pub struct CapableView {
 /// One elementary loop.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct LoopView {
-    /// `loop-1`, `loop-2`, … (its page is `loops/<id>.html`).
+    /// `loop-<10 hex>` from its member reactions (`loops::ids`; its page
+    /// is `loops/<id>.html`).
     pub id: String,
     pub members: Vec<LoopMemberView>,
     /// Metabolites its reactions touch (ids), for the cycle map.

@@ -517,6 +517,13 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             context! {},
         ),
         page(
+            "kinds.html",
+            "kinds.html".into(),
+            "findings",
+            "Finding kinds",
+            context! { kinds => crate::report::kinds::site_rows(report) },
+        ),
+        page(
             "reactions.html",
             "reactions/index.html".into(),
             "reactions",
