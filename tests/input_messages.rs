@@ -216,6 +216,41 @@ fn values_outside_the_plausible_ranges_are_warned_with_units() {
 }
 
 #[test]
+fn side_table_cells_are_judged_too() {
+    // A table named in gibbsite.yaml: bare numbers in `min`/`max` cells.
+    let s = Scratch::new(&[
+        (
+            "p/gibbsite.yaml",
+            "title: tiny\nmodel: model.yaml\ntables: conc.csv\n",
+        ),
+        ("p/model.yaml", &model("", "")),
+        ("p/conc.csv", "metabolite,min,max\nb_c,50,5000\n"),
+    ]);
+    let found = plausibility(&s.path("p"));
+    let messages: Vec<&str> = found.iter().map(|f| f.message.as_str()).collect();
+    // Table positions are line and field number, as in every table message.
+    assert_eq!(
+        messages,
+        [
+            "conc.csv:2:2: column `min` of `b_c`: `50` is read as 50 M (a bare number means mol/L); did you mean 50 mM? — the analysis used the value as read; check the file",
+            "conc.csv:2:3: column `max` of `b_c`: `5000` is read as 5000 M (a bare number means mol/L); did you mean 5000 µM? — the analysis used the value as read; check the file",
+        ]
+    );
+    // A `--data` table, through the CLI: a value with a unit out of range.
+    let s = Scratch::new(&[
+        ("p/gibbsite.yaml", SETTINGS),
+        ("p/model.yaml", &model("", "")),
+        ("p/conc.csv", "metabolite,min,max\nb_c,1 mM,2 M\n"),
+    ]);
+    let (code, stdout, _) = s.check(&["check", "p", "--data", "p/conc.csv"]);
+    assert_eq!(code, Some(0), "{stdout}");
+    assert!(
+        stdout.contains("warning[implausible-concentration] b_c: p/conc.csv:2:3: column `max` of `b_c` is `2 M`: 2 M is above 1 M"),
+        "{stdout}"
+    );
+}
+
+#[test]
 fn the_demo_has_no_implausible_values() {
     let demo = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
     assert_eq!(plausibility(&demo), Vec::<Finding>::new());
