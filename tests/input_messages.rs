@@ -169,6 +169,20 @@ fn a_bare_ionic_strength_of_250_suggests_millimolar() {
         stderr.trim_end(),
         "p/model.yaml:3:29: error: ionic strength must be between 0 and 1 M, found 250 M\n  hint: `250` is read as 250 M (a bare number means mol/L); did you mean 250 mM?"
     );
+    // gibbsite.yaml refuses more than 10 M, with the same hint.
+    let s = Scratch::new(&[
+        (
+            "p/gibbsite.yaml",
+            "title: tiny\nmodel: model.yaml\ncompartments:\n  c: {ph: 7.2, ionic_strength: 250}\n",
+        ),
+        ("p/model.yaml", &model("", "")),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/gibbsite.yaml:4:32: error: ionic strength must be between 0 and 10 M, found 250 M\n  hint: `250` is read as 250 M (a bare number means mol/L); did you mean 250 mM?"
+    );
     // In gibbsite.yaml up to 10 M loads: a warning with the same suggestion.
     let s = Scratch::new(&[
         (
