@@ -7,7 +7,7 @@
 
 use clap::{Parser, Subcommand, ValueEnum};
 use gibbsite::report::{baseline, Report, Severity};
-use gibbsite::{Error, Project};
+use gibbsite::{pipeline, Error, Project};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
@@ -239,14 +239,14 @@ fn run(command: Command) -> Result<ExitCode, Error> {
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
             let loaded = load(&project, &data, &confine.options())?;
-            let report = loaded.analyse();
+            let report = pipeline::report_of(&loaded);
             let out = output.unwrap_or_else(|| default_output(&project));
             let theme = if no_project_theme {
                 None
             } else {
                 loaded.settings.theme_dir.as_deref()
             };
-            gibbsite::site::render(&report, theme, &out)?;
+            pipeline::render(&report, theme, &out)?;
             print_summary(&report);
             eprintln!("site written to {}", out.display());
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
@@ -289,7 +289,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
             let loaded = load(&project, &data, &confine.options())?;
-            let report = loaded.analyse();
+            let report = pipeline::report_of(&loaded);
             let model_file = loaded
                 .settings
                 .model_files
@@ -322,8 +322,7 @@ fn load(
     data: &[PathBuf],
     options: &gibbsite::project::LoadOptions,
 ) -> Result<Project, Error> {
-    let mut loaded = Project::load_with(project, options)?;
-    loaded.add_tables(data)?;
+    let loaded = pipeline::load(project, data, options)?;
     for w in loaded.warnings() {
         eprintln!("{w}");
     }

@@ -139,6 +139,12 @@ fn acid_species() -> SpeciesView {
         pmg: None,
         mean_hydrogens: 4.0 - base,
         mean_charge: -base,
+        // The sum over the two counted species, −RT ln Σ exp(−ΔfG'°ᵢ/RT)
+        // (Alberty 2003), as the report builder would give it.
+        reactant_dfg_prime_kj: {
+            let rt = gibbsite::thermo::constants::R_KJ * 298.15;
+            Some(-rt * ((20.0 / rt).exp() + (22.85 / rt).exp()).ln())
+        },
         // pH 4, 4.5, …, 10 as the report builder would give them.
         curve: (0..=12)
             .map(|k| {
