@@ -169,6 +169,20 @@ fn a_bare_ionic_strength_of_250_suggests_millimolar() {
         stderr.trim_end(),
         "p/model.yaml:3:29: error: ionic strength must be between 0 and 1 M, found 250 M\n  hint: `250` is read as 250 M (a bare number means mol/L); did you mean 250 mM?"
     );
+    // gibbsite.yaml refuses more than 10 M, with the same hint.
+    let s = Scratch::new(&[
+        (
+            "p/gibbsite.yaml",
+            "title: tiny\nmodel: model.yaml\ncompartments:\n  c: {ph: 7.2, ionic_strength: 250}\n",
+        ),
+        ("p/model.yaml", &model("", "")),
+    ]);
+    let (code, _, stderr) = s.check(&["check", "p"]);
+    assert_eq!(code, Some(2));
+    assert_eq!(
+        stderr.trim_end(),
+        "p/gibbsite.yaml:4:32: error: ionic strength must be between 0 and 10 M, found 250 M\n  hint: `250` is read as 250 M (a bare number means mol/L); did you mean 250 mM?"
+    );
     // In gibbsite.yaml up to 10 M loads: a warning with the same suggestion.
     let s = Scratch::new(&[
         (
@@ -212,6 +226,41 @@ fn values_outside_the_plausible_ranges_are_warned_with_units() {
             ("implausible-potential", "model.yaml:3:56: compartment `c` potential is `-350 mV`: -350 mV is beyond ±300 mV, more than biological membranes hold"),
             ("implausible-temperature", "model.yaml:3:78: compartment `c` temperature is `380 K`: 380 K (106.85 °C) is outside 273–373 K (0–100 °C), where water is liquid"),
         ]
+    );
+}
+
+#[test]
+fn side_table_cells_are_judged_too() {
+    // A table named in gibbsite.yaml: bare numbers in `min`/`max` cells.
+    let s = Scratch::new(&[
+        (
+            "p/gibbsite.yaml",
+            "title: tiny\nmodel: model.yaml\ntables: conc.csv\n",
+        ),
+        ("p/model.yaml", &model("", "")),
+        ("p/conc.csv", "metabolite,min,max\nb_c,50,5000\n"),
+    ]);
+    let found = plausibility(&s.path("p"));
+    let messages: Vec<&str> = found.iter().map(|f| f.message.as_str()).collect();
+    // Table positions are line and field number, as in every table message.
+    assert_eq!(
+        messages,
+        [
+            "conc.csv:2:2: column `min` of `b_c`: `50` is read as 50 M (a bare number means mol/L); did you mean 50 mM? — the analysis used the value as read; check the file",
+            "conc.csv:2:3: column `max` of `b_c`: `5000` is read as 5000 M (a bare number means mol/L); did you mean 5000 µM? — the analysis used the value as read; check the file",
+        ]
+    );
+    // A `--data` table, through the CLI: a value with a unit out of range.
+    let s = Scratch::new(&[
+        ("p/gibbsite.yaml", SETTINGS),
+        ("p/model.yaml", &model("", "")),
+        ("p/conc.csv", "metabolite,min,max\nb_c,1 mM,2 M\n"),
+    ]);
+    let (code, stdout, _) = s.check(&["check", "p", "--data", "p/conc.csv"]);
+    assert_eq!(code, Some(0), "{stdout}");
+    assert!(
+        stdout.contains("warning[implausible-concentration] b_c: p/conc.csv:2:3: column `max` of `b_c` is `2 M`: 2 M is above 1 M"),
+        "{stdout}"
     );
 }
 

@@ -207,6 +207,7 @@ impl Project {
                 diagnostics.extend(ds);
             }
         }
+        self.settings.input_remarks.append(&mut self.tables.remarks);
         self.settings.table_metabolites = self.tables.metabolites_with_energy.clone();
         self.settings.table_reactions = self.tables.reactions_with_energy.clone();
         if diagnostics.is_empty() {
@@ -430,6 +431,10 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
     let unset_conditions = unset_compartments(&model, &stated);
     let mut session = tables::TableSession::default();
     apply_side_tables(&mut model, &raw, &root, settings_path, &map, &mut session)?;
+    input_remarks.extend(session.remarks.drain(..).map(|mut r| {
+        r.file = shown_relative(Path::new(&r.file), &root);
+        r
+    }));
     apply_role_overrides(&mut model, &raw, settings_path, &map)?;
     check_currency_ids(&model, &raw, settings_path, &map)?;
     let notes = match &notes_dir {

@@ -121,10 +121,12 @@ fn written(raw: &RawQuantity) -> String {
 /// another unit makes ordinary, the sentence saying so ("`50` is read as
 /// 50 M …; did you mean 50 mM?"). Also used as the hint of a hard error.
 pub fn unit_slip(quantity: Quantity, raw: &RawQuantity) -> Option<String> {
-    let RawQuantity::Number(n) = raw else {
-        return None;
+    // A number written without a unit, also as text (a table cell, a
+    // quoted YAML value).
+    let n = match raw {
+        RawQuantity::Number(n) => *n,
+        RawQuantity::Text(t) => t.trim().parse::<f64>().ok()?,
     };
-    let n = *n;
     let shown = number(n);
     match quantity {
         Quantity::Concentration | Quantity::IonicStrength if n > 1.0 => {
@@ -307,6 +309,46 @@ struct Conditions<'a> {
     temperature: &'a Option<RawQuantity>,
 }
 
+/// Columns of a metabolite side table judged here.
+pub const TABLE_COLUMNS: &[(&str, Quantity)] = &[
+    ("min", Quantity::Concentration),
+    ("max", Quantity::Concentration),
+    ("measured", Quantity::Concentration),
+    ("ph", Quantity::Ph),
+    ("ionic_strength", Quantity::IonicStrength),
+    ("temperature", Quantity::Temperature),
+];
+
+/// The doubt about one cell of a side table, if any: `file` as shown,
+/// `line` of the row, `field` the 1-based field number, `subject` the row's
+/// key as written.
+pub fn judge_cell(
+    file: &str,
+    (line, field): (usize, usize),
+    subject: &str,
+    column: &str,
+    quantity: Quantity,
+    text: &str,
+) -> Option<Remark> {
+    let raw = RawQuantity::Text(text.to_string());
+    let value = units::parse(&raw, quantity.kind()).ok()?;
+    let (kind, message) = judge(quantity, &raw, value)?;
+    let what = format!("column `{column}` of `{subject}`");
+    Some(Remark {
+        kind,
+        file: file.to_string(),
+        line: Some(line),
+        column: Some(field),
+        subject: Some(subject.to_string()),
+        message: if kind == KIND_UNIT_SLIP {
+            format!("{what}: {message}")
+        } else {
+            format!("{what} is `{}`: {message}", text.trim())
+        },
+        value,
+    })
+}
+
 fn child(path: &[Segment], key: &str) -> Vec<Segment> {
     let mut p = path.to_vec();
     p.push(Segment::Key(key.to_string()));
@@ -438,6 +480,10 @@ mod tests {
             .ends_with("did you mean 5000 µM?"));
         // 0.5 M is a possible (if high) pool: no slip.
         assert_eq!(unit_slip(Quantity::Concentration, &bare(0.5)), None);
+        // A table cell or quoted value without a unit is a bare number too.
+        assert!(unit_slip(Quantity::Concentration, &text(" 50 "))
+            .unwrap()
+            .ends_with("did you mean 50 mM?"));
         // With a unit, the writer said what was meant.
         assert_eq!(unit_slip(Quantity::Concentration, &text("50 M")), None);
         // 25 °C = 298.15 K (definition of the Celsius scale).
