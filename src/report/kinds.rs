@@ -146,6 +146,36 @@ const HELP: &[KindHelp] = &[
         summary: "The model regenerates an energy currency from nothing.",
         help: "With every boundary reaction shut, a dissipation reaction of the currency can still carry flux, so the model makes energy out of nothing. Constrain the directions of the example reactions that should not run that way.",
     },
+    KindHelp {
+        kind: "bare-number-unit-slip",
+        summary: "A number written without a unit is read in a unit it was probably not meant in.",
+        help: "A bare concentration is read as mol/L, a bare temperature as kelvin and a bare ionic strength as mol/L; the value given reads as implausible in that unit. Write the unit (for example `50 mM` or `25 °C`); the computed energies use the value as read until then.",
+    },
+    KindHelp {
+        kind: "implausible-concentration",
+        summary: "A concentration lies above 1 M or below 1 pM.",
+        help: "Metabolite concentrations in cells lie far inside this range; a value outside it usually is a unit slip. Check the value and its unit; every ΔG' computed from it shifts by RT ln of the error.",
+    },
+    KindHelp {
+        kind: "implausible-temperature",
+        summary: "A temperature lies outside 273–373 K.",
+        help: "Liquid water and the tabulated data cover this range only; a value outside it is usually a unit slip (°C written as K). Check the value and its unit.",
+    },
+    KindHelp {
+        kind: "implausible-ionic-strength",
+        summary: "An ionic strength lies above 0.5 M.",
+        help: "Cellular ionic strength is about 0.1–0.25 M and the extended Debye–Hückel correction is not meant for much more; a larger value is usually a unit slip. Check the value and its unit.",
+    },
+    KindHelp {
+        kind: "implausible-potential",
+        summary: "A membrane potential has magnitude above 300 mV.",
+        help: "Biological membranes sustain potentials of at most a few hundred millivolts; a larger value is usually a unit slip (V written for mV). Check the value and its unit.",
+    },
+    KindHelp {
+        kind: "implausible-ph",
+        summary: "A pH lies outside 4–10.",
+        help: "Compartments of living cells lie inside this range; a value outside it is usually a typing slip. Check the value.",
+    },
 ];
 
 /// One row of the site's `kinds.html` (the page SARIF rules link to).
