@@ -73,7 +73,15 @@ struct Findings {
 }
 
 fn kind_parser() -> clap::builder::PossibleValuesParser {
-    clap::builder::PossibleValuesParser::new(gibbsite::report::kinds::all_kinds())
+    use gibbsite::report::kinds;
+    // Each kind's one-line summary is its help in `--help`.
+    clap::builder::PossibleValuesParser::new(kinds::all_kinds().into_iter().map(|k| {
+        let value = clap::builder::PossibleValue::new(k);
+        match kinds::help(k) {
+            Some(h) => value.help(h.summary),
+            None => value,
+        }
+    }))
 }
 
 impl Findings {
