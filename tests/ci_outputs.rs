@@ -393,6 +393,14 @@ fn sarif_of_the_yaml_demo_is_valid_located_and_has_a_rule_per_kind() {
     }
     // Every demo finding names a reaction or compartment except none: all 14.
     assert_eq!(located, report.findings.len());
+    // Scenarios defined in gibbsite.yaml are located there (`dusk`, line
+    // of its `- id: dusk`).
+    let lines = project.source_lines.locate();
+    let (file, line) = lines.get("dusk").expect("dusk is located");
+    assert!(file.ends_with("projects/lakeside/gibbsite.yaml"));
+    let settings = std::fs::read_to_string(demo().join("gibbsite.yaml")).unwrap();
+    assert!(settings.lines().nth(line - 1).unwrap().contains("id: dusk"));
+    assert_eq!(lines.get("PEPS").unwrap().0, demo().join("model.yaml"));
     // Loop findings are located through their member reactions.
     let lp = results
         .iter()
