@@ -393,6 +393,14 @@ fn sarif_of_the_yaml_demo_is_valid_located_and_has_a_rule_per_kind() {
     }
     // Every demo finding names a reaction or compartment except none: all 14.
     assert_eq!(located, report.findings.len());
+    // Scenarios defined in gibbsite.yaml are located there (`dusk`, line
+    // of its `- id: dusk`).
+    let lines = project.source_lines.locate();
+    let (file, line) = lines.get("dusk").expect("dusk is located");
+    assert!(file.ends_with("projects/lakeside/gibbsite.yaml"));
+    let settings = std::fs::read_to_string(demo().join("gibbsite.yaml")).unwrap();
+    assert!(settings.lines().nth(line - 1).unwrap().contains("id: dusk"));
+    assert_eq!(lines.get("PEPS").unwrap().0, demo().join("model.yaml"));
     // Loop findings are located through their member reactions.
     let lp = results
         .iter()
@@ -616,25 +624,30 @@ fn baseline_of_another_model_is_an_error_unless_allowed() {
 }
 
 /// A small model with three elementary loops (a triangle, a square
-/// sharing `a` with it, and two parallel steps), written once as is and
-/// once with its reactions and metabolites in reverse order.
+/// sharing `a` with it, and two parallel steps) and an energy-generating
+/// cycle (A1 + A2 make ATP from ADP + Pi out of nothing), written once as
+/// is and once with its reactions and metabolites in reverse order.
 fn loop_model(reverse: bool) -> String {
-    let mut metabolites: Vec<String> = ["a", "b", "c", "d", "e", "f", "g", "h"]
-        .iter()
-        .map(|m| format!("  - {{id: {m}, compartment: c}}"))
-        .collect();
+    let mut metabolites: Vec<String> = [
+        "a", "b", "c", "d", "e", "f", "g", "k", "atp_c", "adp_c", "pi_c", "h2o_c", "h_c", "x_c",
+    ]
+    .iter()
+    .map(|m| format!("  - {{id: {m}, compartment: c}}"))
+    .collect();
     let mut reactions: Vec<&str> = vec![
         "  - {id: T1, equation: a <-> b}",
         "  - {id: T2, equation: b <-> c}",
         "  - {id: T3, equation: c <-> a}",
         "  - {id: S1, equation: a <-> f}",
         "  - {id: S2, equation: f <-> g}",
-        "  - {id: S3, equation: g <-> h}",
-        "  - {id: S4, equation: h <-> a}",
+        "  - {id: S3, equation: g <-> k}",
+        "  - {id: S4, equation: k <-> a}",
         "  - {id: P1, equation: d <-> e}",
         "  - {id: P2, equation: d <-> e}",
         "  - {id: L1, equation: a <-> d}",
         "  - {id: EX_a, equation: a <->}",
+        "  - {id: A1, equation: adp_c + pi_c + h_c -> x_c}",
+        "  - {id: A2, equation: x_c -> atp_c + h2o_c}",
     ];
     if reverse {
         metabolites.reverse();
@@ -694,6 +707,20 @@ fn loop_ids_survive_reordering_and_the_baseline_sees_nothing_new() {
     };
     assert_eq!(ids(&before), expected);
     assert_eq!(ids(&after), expected);
+    // The energy-generating cycle's id: its dissipation and reactions.
+    let cycle_ids = |r: &gibbsite::Report| -> Vec<Option<String>> {
+        r.loops
+            .as_ref()
+            .unwrap()
+            .energy_cycles
+            .iter()
+            .filter(|c| c.cycle_exists)
+            .map(|c| c.id.clone())
+            .collect()
+    };
+    let cycle = gibbsite::loops::ids::member_set_id("cycle", ["atp in c", "A1", "A2"]);
+    assert_eq!(cycle_ids(&before), [Some(cycle.clone())]);
+    assert_eq!(cycle_ids(&after), [Some(cycle)]);
     assert!(expected
         .iter()
         .all(|(id, _)| id.len() == "loop-".len() + 10));

@@ -324,6 +324,7 @@ fn loops_view() -> LoopsView {
         uncovered: vec![],
         energy_cycles: vec![
             EnergyCycleView {
+                id: Some("cycle-0123456789".into()),
                 currency: "atp".into(),
                 compartment: "c".into(),
                 equation: "atp_c -> adp_c + pi_c".into(),
@@ -334,6 +335,7 @@ fn loops_view() -> LoopsView {
                 ],
             },
             EnergyCycleView {
+                id: None,
                 currency: "nadh".into(),
                 compartment: "c".into(),
                 equation: "nadh_c -> nad_c + h_c".into(),

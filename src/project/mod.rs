@@ -400,13 +400,20 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         .enumerate()
         .map(|(i, s)| (settings_path.to_path_buf(), &map, s.clone(), i))
         .collect();
-    let (mut model, mut stated, mut input_remarks, source_lines) =
+    let (mut model, mut stated, mut input_remarks, mut source_lines) =
         load_model_files_stated(&model_files, &extra, &root)?;
     input_remarks.extend(plausibility::scan_settings(
         &shown_relative(settings_path, &root),
         &raw,
         &map,
     ));
+    // Scenarios defined in gibbsite.yaml are located there.
+    let scenario_ids = raw.scenarios.iter().map(|s| s.id.clone()).collect();
+    source_lines.add_yaml(
+        settings_path,
+        text.clone(),
+        vec![vec![], vec![], vec![], scenario_ids],
+    );
     let given = conditions::validate(
         settings_path,
         &map,

@@ -576,6 +576,7 @@ fn loops_view(model: &Model, analysis: &Analysis) -> Option<LoopsView> {
                             .join(" + ")
                     };
                     EnergyCycleView {
+                        id: r.cycle_exists.then(|| energy_cycle_id(r)),
                         currency: r.test.currency.clone(),
                         compartment: r.test.compartment.clone(),
                         equation: format!("{} -> {}", side(true), side(false)),
@@ -681,4 +682,14 @@ fn species_label(sp: &crate::model::Species) -> String {
         label.push_str(&format!(", Mg {}", sp.magnesium));
     }
     label
+}
+
+/// The id of an energy-generating cycle from its members: the dissipation
+/// tested and the example's reactions (order-free, see `loops::ids`).
+fn energy_cycle_id(r: &crate::loops::EnergyCycleResult) -> String {
+    let dissipation = format!("{} in {}", r.test.currency, r.test.compartment);
+    crate::loops::ids::member_set_id(
+        "cycle",
+        std::iter::once(dissipation.as_str()).chain(r.example.iter().map(|m| m.reaction.as_str())),
+    )
 }

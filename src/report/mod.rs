@@ -194,6 +194,11 @@ pub struct ConstraintView {
 /// One energy-generating-cycle test.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct EnergyCycleView {
+    /// `cycle-<10 hex>` from its member set (the tested dissipation, as
+    /// `<currency> in <compartment>`, and the example's reactions; see
+    /// `loops::ids`); `None` when no cycle exists.
+    #[serde(default)]
+    pub id: Option<String>,
     pub currency: String,
     pub compartment: String,
     /// The dissipation reaction tested, e.g. `atp_c + h2o_c -> adp_c + pi_c + h_c`.
