@@ -133,8 +133,9 @@ fn a_bare_temperature_of_25_in_the_settings_suggests_celsius() {
     // And through the CLI, as a warning line of `check`.
     let (code, stdout, _) = s.check(&["check", "p", "--fail-on", "warning"]);
     assert_eq!(code, Some(1));
+    // `check` groups findings under a `severity kind (count)` line.
     assert!(
-        stdout.contains("warning[bare-number-unit-slip] c: gibbsite.yaml:4:29: compartment `c` temperature: `25` is read as 25 K"),
+        stdout.contains("warning bare-number-unit-slip (1)\n  c: gibbsite.yaml:4:29: compartment `c` temperature: `25` is read as 25 K"),
         "{stdout}"
     );
 }
@@ -259,7 +260,7 @@ fn side_table_cells_are_judged_too() {
     let (code, stdout, _) = s.check(&["check", "p", "--data", "p/conc.csv"]);
     assert_eq!(code, Some(0), "{stdout}");
     assert!(
-        stdout.contains("warning[implausible-concentration] b_c: p/conc.csv:2:3: column `max` of `b_c` is `2 M`: 2 M is above 1 M"),
+        stdout.contains("warning implausible-concentration (1)\n  b_c: p/conc.csv:2:3: column `max` of `b_c` is `2 M`: 2 M is above 1 M"),
         "{stdout}"
     );
 }
