@@ -75,7 +75,7 @@ struct Findings {
 fn kind_parser() -> clap::builder::PossibleValuesParser {
     use gibbsite::report::kinds;
     // Each kind's one-line summary is its help in `--help`.
-    clap::builder::PossibleValuesParser::new(kinds::all_kinds().into_iter().map(|k| {
+    clap::builder::PossibleValuesParser::new(gibbsite::checks::kinds().into_iter().map(|k| {
         let value = clap::builder::PossibleValue::new(k);
         match kinds::help(k) {
             Some(h) => value.help(h.summary),
@@ -92,7 +92,7 @@ impl Findings {
         fail_on: FailOn,
         baseline: Option<(&Path, &Report)>,
     ) -> Result<Outcome, Error> {
-        let filter = KindFilter::new(&self.only, &self.skip)
+        let filter = KindFilter::new(&self.only, &self.skip, &gibbsite::checks::kinds())
             .map_err(|e| Error::input(gibbsite::Diagnostic::new(Path::new("--only/--skip"), e)))?;
         filter.apply(report);
         if let Some((path, b)) = baseline {

@@ -585,7 +585,7 @@ fn only_and_skip_filter_kinds_and_unknown_kinds_are_refused() {
     let (code, _, err) = run(&["check", "projects/lakeside", "--skip", "internal-lop"]);
     assert_eq!(code, 2);
     assert!(err.contains("internal-lop"), "{err}");
-    for kind in gibbsite::report::kinds::all_kinds() {
+    for kind in gibbsite::checks::kinds() {
         assert!(err.contains(kind), "{kind} missing from: {err}");
     }
 }
@@ -745,4 +745,19 @@ fn loop_ids_survive_reordering_and_the_baseline_sees_nothing_new() {
             .starts_with("PASS: 0 errors, 0 warnings, 0 notes new since the baseline"),
         "{out}"
     );
+}
+
+/// Every registered kind has our help text (SARIF rules, kinds.html, the
+/// Markdown summary), and no help text is left for a kind no check reports.
+#[test]
+fn every_registered_kind_has_help_and_no_help_is_orphaned() {
+    let kinds = gibbsite::checks::kinds();
+    for k in &kinds {
+        let h = gibbsite::report::kinds::help(k)
+            .unwrap_or_else(|| panic!("no help text for kind `{k}`"));
+        assert!(h.summary.ends_with('.') && h.help.ends_with('.'), "{k}");
+    }
+    for k in gibbsite::report::kinds::helped_kinds() {
+        assert!(kinds.contains(&k), "help for unregistered kind {k}");
+    }
 }

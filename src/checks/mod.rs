@@ -47,6 +47,16 @@ pub const REGISTRY: &[Check] = &[
 /// Run every registered check over the analysed data, soften what unset
 /// compartment conditions make uncertain, and sort the findings
 /// deterministically.
+/// Every kind a registered check may report, in registry order, each once.
+pub fn kinds() -> Vec<&'static str> {
+    let mut seen = std::collections::BTreeSet::new();
+    REGISTRY
+        .iter()
+        .flat_map(|c| c.kinds.iter().copied())
+        .filter(|k| seen.insert(*k))
+        .collect()
+}
+
 pub fn run_all(analysis: &Analysis) -> Vec<Finding> {
     let mut findings: Vec<Finding> = REGISTRY
         .iter()

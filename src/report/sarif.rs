@@ -39,7 +39,10 @@ pub fn to_sarif(report: &Report, options: &SarifOptions) -> String {
         .enumerate()
         .map(|(i, k)| (*k, i))
         .collect();
-    let rules: Vec<Value> = kinds_used.iter().map(|kind| rule(kind, options)).collect();
+    let rules: Vec<Value> = kinds_used
+        .iter()
+        .map(|kind| rule(report, kind, options))
+        .collect();
     let subject_kinds = subject_kinds(report);
     let results: Vec<Value> = report
         .findings
@@ -83,9 +86,9 @@ pub fn to_sarif(report: &Report, options: &SarifOptions) -> String {
 }
 
 /// The rule of one finding kind.
-fn rule(kind: &str, options: &SarifOptions) -> Value {
+fn rule(report: &Report, kind: &str, options: &SarifOptions) -> Value {
     let help = kinds::help(kind);
-    let check = kinds::check_of(kind);
+    let check = kinds::check_of(report, kind);
     let summary = help
         .map(|h| h.summary.to_string())
         .or_else(|| check.map(|(title, _)| format!("{title}.")))

@@ -52,7 +52,7 @@ pub fn to_markdown(report: &Report, outcome: &Outcome, root_causes: &[RootCauseL
         for ((severity, kind), findings) in &groups {
             let meaning = kinds::help(kind)
                 .map(|h| h.summary.to_string())
-                .or_else(|| kinds::check_of(kind).map(|(title, _)| title.to_string()))
+                .or_else(|| kinds::check_of(report, kind).map(|(title, _)| title.to_string()))
                 .unwrap_or_default();
             let _ = writeln!(
                 out,
