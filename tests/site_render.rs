@@ -742,6 +742,7 @@ fn all_expected_files_exist_and_nothing_else() {
         "coverage.html",
         "report.json",
         "assets/style.css",
+        "assets/pages.css",
         "assets/table.js",
         "assets/map.js",
         // Network maps: the fixture's groups (ATPH in `energy`, HAT in

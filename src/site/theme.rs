@@ -40,6 +40,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "map.html",
     "map_section.html",
     "style.css",
+    "pages.css",
     "table.js",
     "map.js",
 ];
