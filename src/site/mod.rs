@@ -26,10 +26,12 @@ pub mod coverage;
 pub mod derived;
 pub mod evidence;
 pub mod format;
+pub mod lists;
 pub mod loop_map;
 pub mod map;
 pub mod markdown;
 pub mod scenario_svg;
+pub mod search;
 pub mod species_chart;
 pub mod svg;
 pub mod theme;
@@ -73,6 +75,7 @@ pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(
     for (name, bytes) in theme.assets() {
         staging.write(&format!("assets/{name}"), bytes)?;
     }
+    staging.write(search::INDEX_FILE, search::index_script(&sorted).as_bytes())?;
     let mut files = Vec::new();
     for page in pages(&sorted, &mut files) {
         let html = typeset::html(&render_page(&env, &theme, &page)?);
@@ -525,20 +528,6 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             context! {},
         ),
         page(
-            "reactions.html",
-            "reactions/index.html".into(),
-            "reactions",
-            "Reactions",
-            context! {},
-        ),
-        page(
-            "metabolites.html",
-            "metabolites/index.html".into(),
-            "metabolites",
-            "Metabolites",
-            context! {},
-        ),
-        page(
             "coverage.html",
             "coverage.html".into(),
             "coverage",
@@ -546,6 +535,29 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             context! { missing_csv => coverage::MISSING_CSV },
         ),
     ];
+    for (template, dir, title, total) in [
+        (
+            "reactions.html",
+            "reactions",
+            "Reactions",
+            report.reactions.len(),
+        ),
+        (
+            "metabolites.html",
+            "metabolites",
+            "Metabolites",
+            report.metabolites.len(),
+        ),
+    ] {
+        for p in lists::pages(dir, total) {
+            let title = match p.pages {
+                1 => title.to_string(),
+                n => format!("{title} ({} of {n})", p.number),
+            };
+            let extra = context! { pager => Value::from_serialize(&p) };
+            out.push(page(template, p.path, dir, &title, extra));
+        }
+    }
     let maps = map::MapContext::new(report);
     out.extend(
         map_pages(&maps, files)

@@ -43,6 +43,8 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "pages.css",
     "table.js",
     "map.js",
+    "search.js",
+    "pager.html",
 ];
 
 /// The theme in use: file name (with `/` between folders) → content.
