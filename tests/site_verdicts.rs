@@ -309,7 +309,7 @@ fn one_prime_and_one_minus_throughout_and_formulas_with_subscripts() {
     assert_eq!(glc.formula.as_deref(), Some("C6H12O6"));
     let html = page(&out, &format!("metabolites/{}.html", glc.slug));
     assert!(html.contains("<dt>Formula</dt><dd>C₆H₁₂O₆</dd>"));
-    assert!(page(&out, "metabolites/index.html").contains("<td>C₆H₁₂O₆</td>"));
+    assert!(page(&out, "metabolites/index.html").contains("<td class=\"secondary\">C₆H₁₂O₆</td>"));
 }
 
 fn walk(dir: &Path) -> Vec<std::path::PathBuf> {
