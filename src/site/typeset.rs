@@ -64,6 +64,10 @@ fn tag_name(tag: &str) -> &str {
 
 /// Primes and minus signs in one run of (escaped) text.
 fn text_node(text: &str) -> String {
+    // Most text has nothing to set: copy it whole.
+    if !text.contains(['\'', '-', '&']) {
+        return text.to_owned();
+    }
     let mut out = String::with_capacity(text.len());
     let mut rest = text;
     while let Some(c) = rest.chars().next() {
