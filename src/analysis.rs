@@ -1,16 +1,17 @@
-//! The analysis context shared by all checks: the model, its network, and
-//! the energies computed once (per metabolite ΔfG'°, per reaction ΔrG'°, K'
-//! and ΔG' range). Checks read it; none of them changes it.
+//! The analysed data every check reads: the model, its network, and the
+//! energies computed once (per metabolite ΔfG'°, per reaction ΔrG'°, K' and
+//! ΔG' range), loops and scenarios. Checks read it; none of them changes it.
+//! This module knows nothing of checks, findings' consumers or the report:
+//! `pipeline` runs the stages in order.
 
-use crate::checks;
+use crate::finding::Verdict;
 use crate::loops::{
     self, CurrencyOptions, DeltaGRange, EnergyCycleAnalysis, LoopAnalysis, LoopEnergy,
     LoopEnergyOptions, LoopError, StandardDeltaG,
 };
 use crate::model::{Model, Range, Role, Special};
 use crate::network::Network;
-use crate::project::{Project, Settings};
-use crate::report::{Finding, Report, Verdict};
+use crate::project::Settings;
 use crate::thermo::errors::{ErrorModel, ErrorSource};
 use crate::thermo::reaction::{self, Participant};
 use crate::thermo::transport::{self, CompartmentState, Participant as TransportParticipant};
@@ -517,26 +518,6 @@ impl<'a> Analysis<'a> {
     pub fn is_thermodynamic(&self, j: usize) -> bool {
         self.model.reactions[j].role == Role::Internal
     }
-
-    /// Run every registered check.
-    pub fn findings(&self) -> Vec<Finding> {
-        let mut findings: Vec<Finding> = checks::REGISTRY
-            .iter()
-            .flat_map(|check| (check.run)(self))
-            .collect();
-        checks::compartment_conditions::soften(self, &mut findings);
-        crate::report::build::sort_findings(&mut findings);
-        findings
-    }
-}
-
-impl Project {
-    /// Analyse the project and return the report every output is made from.
-    pub fn analyse(&self) -> Report {
-        let analysis = Analysis::new(&self.model, &self.settings);
-        let findings = analysis.findings();
-        crate::report::build::build(self, &analysis, findings)
-    }
 }
 
 /// H atoms and charge a metabolite carries across a membrane as written:
@@ -564,6 +545,7 @@ fn carried_hydrogens_and_charge(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::project::Project;
 
     /// The demo's compounds: what crosses the membrane is one compound on
     /// both sides (same library entry or identical species data); the rest

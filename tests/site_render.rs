@@ -139,6 +139,12 @@ fn acid_species() -> SpeciesView {
         pmg: None,
         mean_hydrogens: 4.0 - base,
         mean_charge: -base,
+        // The sum over the two counted species, −RT ln Σ exp(−ΔfG'°ᵢ/RT)
+        // (Alberty 2003), as the report builder would give it.
+        reactant_dfg_prime_kj: {
+            let rt = gibbsite::thermo::constants::R_KJ * 298.15;
+            Some(-rt * ((20.0 / rt).exp() + (22.85 / rt).exp()).ln())
+        },
         // pH 4, 4.5, …, 10 as the report builder would give them.
         curve: (0..=12)
             .map(|k| {
@@ -739,6 +745,7 @@ fn all_expected_files_exist_and_nothing_else() {
         MARKER_FILE,
         "index.html",
         "findings.html",
+        "kinds.html",
         "coverage.html",
         "report.json",
         "assets/style.css",
@@ -1680,6 +1687,9 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
 
     // Errors and warnings of the demo (see tests/demo.rs for why each is
     // there), in the overview's table: severity, kind, subject, scenario.
+    // The loop's id comes from its member set (loops::ids).
+    let loop_id = gibbsite::loops::ids::member_set_id("loop", ["PEPS", "PYK"]);
+    let loop_subjects = format!("{loop_id}, PYK, PEPS");
     let index = String::from_utf8(tree["index.html"].clone()).unwrap();
     let rows = table_rows(&index, "data findings");
     let listed: Vec<[&str; 4]> = rows[1..]
@@ -1699,7 +1709,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
                 "PLC1, PLC2, PLC3",
                 "bloom"
             ],
-            ["▲ warning", "internal-loop", "loop-1, PYK, PEPS", "—"],
+            ["▲ warning", "internal-loop", loop_subjects.as_str(), "—"],
             ["▲ warning", "scenario-internal-cycle", "PYK, PEPS", "refit"],
             ["▲ warning", "scenario-marginal", "GAPD", "bloom"],
             ["▲ warning", "scenario-marginal", "GAPD", "noon"],
@@ -1717,7 +1727,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
 
     // The demo's one loop (PYK and PEPS, each other's reverse): its subject
     // links to its page, the loop index lists it with the report's numbers.
-    assert!(index.contains("<a href=\"loops/loop-1.html\">loop-1</a>"));
+    assert!(index.contains(&format!("<a href=\"loops/{loop_id}.html\">{loop_id}</a>")));
     let view = &report
         .loops
         .as_ref()
@@ -1731,7 +1741,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
     assert_eq!(
         rows[1][..5],
         [
-            "loop-1",
+            loop_id.as_str(),
             "2",
             "PEPS forward, PYK forward",
             &format!("{} ± {}", energy(sum), energy(sigma)),
@@ -1743,7 +1753,7 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
     // over a cycle telescopes to zero).
     assert_eq!(energy(sum), "0.00");
     assert!(text_of(&loops).contains("Loop-capable reactions 2"));
-    let page = String::from_utf8(tree["loops/loop-1.html"].clone()).unwrap();
+    let page = String::from_utf8(tree[&format!("loops/{loop_id}.html")].clone()).unwrap();
     let svg = svg_block(&page, "loop-map");
     // Drawn from the first by id.
     assert_eq!(svg_texts(svg, "node-id"), ["PEPS", "PYK"]);

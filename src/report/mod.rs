@@ -9,77 +9,18 @@ pub mod baseline;
 pub mod build;
 pub mod coverage;
 pub mod json;
+pub mod kinds;
 pub mod sarif;
 pub mod scenario_build;
 pub mod scenario_view;
 pub mod summary;
 pub mod text;
 
+pub use crate::finding::{Finding, Severity, Verdict};
 pub use scenario_view::*;
 
 /// Version of the `report.json` shape; bump on breaking changes.
 pub const REPORT_SCHEMA_VERSION: u32 = 1;
-
-#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "lowercase")]
-pub enum Severity {
-    Error,
-    Warning,
-    Note,
-}
-
-impl Severity {
-    pub fn slug(self) -> &'static str {
-        match self {
-            Severity::Error => "error",
-            Severity::Warning => "warning",
-            Severity::Note => "note",
-        }
-    }
-}
-
-/// One problem found by a check.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct Finding {
-    /// Descriptive slug of the check kind, e.g. `direction-contradiction`.
-    pub kind: String,
-    pub severity: Severity,
-    /// Ids of the reactions / metabolites / loops concerned (first = main).
-    pub subjects: Vec<String>,
-    /// Scenario id when the finding belongs to one flux scenario.
-    pub scenario: Option<String>,
-    pub message: String,
-    /// Named numbers backing the message (kJ/mol unless the name says else).
-    pub evidence: BTreeMap<String, f64>,
-}
-
-/// Verdict on whether a flux direction is thermodynamically possible.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum Verdict {
-    /// Impossible for every allowed concentration even after the uncertainty allowance.
-    Contradiction,
-    /// Possible only near the concentration bounds or within the uncertainty.
-    Marginal,
-    /// The best achievable ΔG' in that direction is 0 within the allowance:
-    /// no driving force can be shown (its own verdict, never "consistent").
-    AtEquilibrium,
-    Consistent,
-    /// No ΔG'° available.
-    NoData,
-}
-
-impl Verdict {
-    pub fn slug(self) -> &'static str {
-        match self {
-            Verdict::Contradiction => "contradiction",
-            Verdict::Marginal => "marginal",
-            Verdict::AtEquilibrium => "at-equilibrium",
-            Verdict::Consistent => "consistent",
-            Verdict::NoData => "no-data",
-        }
-    }
-}
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Report {
@@ -199,7 +140,8 @@ pub struct CapableView {
 /// One elementary loop.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct LoopView {
-    /// `loop-1`, `loop-2`, … (its page is `loops/<id>.html`).
+    /// `loop-<10 hex>` from its member reactions (`loops::ids`; its page
+    /// is `loops/<id>.html`).
     pub id: String,
     pub members: Vec<LoopMemberView>,
     /// Metabolites its reactions touch (ids), for the cycle map.
@@ -400,6 +342,10 @@ pub struct SpeciesView {
     pub pmg: Option<f64>,
     pub mean_hydrogens: f64,
     pub mean_charge: f64,
+    /// ΔfG'° of the reactant made of the species counted here (the sum over
+    /// species, Alberty 2003), kJ/mol; `None` when no species was counted.
+    #[serde(default)]
+    pub reactant_dfg_prime_kj: Option<f64>,
     /// Species mole fractions over pH 4–10: (pH, fraction of each entry).
     pub curve: Vec<CurvePoint>,
     /// Where each value comes from.

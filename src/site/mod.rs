@@ -528,6 +528,13 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             context! {},
         ),
         page(
+            "kinds.html",
+            "kinds.html".into(),
+            "findings",
+            "Finding kinds",
+            context! { kinds => crate::report::kinds::site_rows(report) },
+        ),
+        page(
             "coverage.html",
             "coverage.html".into(),
             "coverage",
@@ -634,7 +641,7 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
                         .filter_map(|&k| species.map(|s| s.entries[k].label.clone()))
                         .collect::<Vec<_>>()
                 }),
-                species_dfg_prime_kj => species.and_then(derived::reactant_dfg_prime_kj),
+                species_dfg_prime_kj => species.and_then(|s| s.reactant_dfg_prime_kj),
                 network_map => map::pages::metabolite_neighbourhood(&maps, &metabolite.id)
                     .map(|d| Value::from_safe_string(d.svg)),
             },

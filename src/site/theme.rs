@@ -25,6 +25,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "macros.html",
     "index.html",
     "findings.html",
+    "kinds.html",
     "coverage.html",
     "reactions.html",
     "reaction.html",

@@ -11,7 +11,6 @@
 //! (exchange, demand, sink) and biomass are not judged: their badge says
 //! so instead of pretending the bounds forbid them.
 
-use crate::checks::{bounds_audit, scenario_joint};
 use crate::report::{Finding, ReactionView, Report, Severity, Verdict};
 use serde::Serialize;
 use std::collections::BTreeMap;
@@ -166,8 +165,26 @@ fn allows_backward(r: &ReactionView) -> bool {
     r.lower_bound < 0.0
 }
 
+/// The finding kinds of the check `slug`, as the report lists them.
+fn kinds_of<'a>(report: &'a Report, slug: &str) -> Vec<&'a str> {
+    report
+        .summary
+        .checks
+        .iter()
+        .filter(|c| c.slug == slug)
+        .flat_map(|c| c.kinds.iter().map(String::as_str))
+        .collect()
+}
+
 /// Badges and the one-line verdict of every reaction, by id.
 pub fn reaction_verdicts(report: &Report) -> BTreeMap<&str, ReactionVerdicts> {
+    // The check that judges each reaction's declared directions, and the
+    // one that judges scenarios as a whole (its findings are not about one
+    // reaction's direction).
+    let kinds = Kinds {
+        own: kinds_of(report, "bounds"),
+        joint: kinds_of(report, "scenario-joint"),
+    };
     let mut about: BTreeMap<&str, Vec<&Finding>> = BTreeMap::new();
     for f in &report.findings {
         let mut seen = Vec::new();
@@ -183,7 +200,7 @@ pub fn reaction_verdicts(report: &Report) -> BTreeMap<&str, ReactionVerdicts> {
         .iter()
         .map(|r| {
             let findings = about.get(r.id.as_str()).map_or(&[][..], |v| v.as_slice());
-            (r.id.as_str(), verdicts_of(r, findings))
+            (r.id.as_str(), verdicts_of(r, findings, &kinds))
         })
         .collect()
 }
@@ -193,11 +210,16 @@ fn direction_finding(f: &Finding, r: &ReactionView, kinds: &[&str]) -> bool {
     f.subjects.first() == Some(&r.id) && kinds.contains(&f.kind.as_str())
 }
 
-fn verdicts_of(r: &ReactionView, findings: &[&Finding]) -> ReactionVerdicts {
+struct Kinds<'a> {
+    own: Vec<&'a str>,
+    joint: Vec<&'a str>,
+}
+
+fn verdicts_of(r: &ReactionView, findings: &[&Finding], kinds: &Kinds<'_>) -> ReactionVerdicts {
     let own = worst(
         findings
             .iter()
-            .filter(|f| f.scenario.is_none() && direction_finding(f, r, bounds_audit::CHECK.kinds))
+            .filter(|f| f.scenario.is_none() && direction_finding(f, r, &kinds.own))
             .map(|f| f.severity),
     );
     let direction = |v: Option<Verdict>, allowed: bool| match v {
@@ -220,7 +242,7 @@ fn verdicts_of(r: &ReactionView, findings: &[&Finding]) -> ReactionVerdicts {
                         // direction alone.
                         f.scenario.as_deref() == Some(sv.scenario.as_str())
                             && f.subjects.first() == Some(&r.id)
-                            && !scenario_joint::CHECK.kinds.contains(&f.kind.as_str())
+                            && !kinds.joint.contains(&f.kind.as_str())
                     })
                     .map(|f| f.severity),
             );
