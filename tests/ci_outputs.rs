@@ -346,13 +346,14 @@ fn sarif_of_the_yaml_demo_is_valid_located_and_has_a_rule_per_kind() {
         let help = r["help"]["text"].as_str().unwrap();
         let first = help.split(". ").next().unwrap();
         assert!(
-            entry.contains(
+            // As the page shows it: escaped, then typeset (ΔG' → ΔG′).
+            entry.contains(&gibbsite::site::typeset::html(
                 &first
                     .replace('&', "&amp;")
                     .replace('<', "&lt;")
                     .replace('>', "&gt;")
                     .replace('\'', "&#x27;")
-            ),
+            )),
             "{entry}\n{first}"
         );
     }

@@ -751,8 +751,11 @@ fn all_expected_files_exist_and_nothing_else() {
         "coverage.html",
         "report.json",
         "assets/style.css",
+        "assets/pages.css",
         "assets/table.js",
         "assets/map.js",
+        "assets/search.js",
+        "assets/search-index.js",
         // Network maps: the fixture's groups (ATPH in `energy`, HAT in
         // `transport`, the rest without group), each also as SVG.
         "maps/index.html",
@@ -907,8 +910,8 @@ fn model_strings_are_escaped_everywhere() {
             !html.contains("<script>alert"),
             "{name} contains the note's script"
         );
-        // Our own script tags (tables, map zoom) are the only ones.
-        assert_eq!(html.matches("<script").count(), 2, "{name}");
+        // Our own script tags (tables, map zoom, search) are the only ones.
+        assert_eq!(html.matches("<script").count(), 3, "{name}");
         assert!(html.contains(CAUTION), "{name} lacks the caution");
     }
     for name in tree.keys() {

@@ -24,14 +24,19 @@
 
 pub mod coverage;
 pub mod derived;
+pub mod evidence;
 pub mod format;
+pub mod lists;
 pub mod loop_map;
 pub mod map;
 pub mod markdown;
 pub mod scenario_svg;
+pub mod search;
 pub mod species_chart;
 pub mod svg;
 pub mod theme;
+pub mod typeset;
+pub mod verdicts;
 pub mod write;
 
 use crate::error::Error;
@@ -70,9 +75,10 @@ pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(
     for (name, bytes) in theme.assets() {
         staging.write(&format!("assets/{name}"), bytes)?;
     }
+    staging.write(search::INDEX_FILE, search::index_script(&sorted).as_bytes())?;
     let mut files = Vec::new();
     for page in pages(&sorted, &mut files) {
-        let html = render_page(&env, &theme, &page)?;
+        let html = typeset::html(&render_page(&env, &theme, &page)?);
         staging.write(&page.path, html.as_bytes())?;
     }
     // Standalone copies of the maps (for papers and slides).
@@ -92,6 +98,8 @@ pub(crate) fn environment(theme: &Theme) -> Result<Environment<'static>, Error> 
     env.set_trim_blocks(true);
     env.set_lstrip_blocks(true);
     format::register(&mut env);
+    evidence::register(&mut env);
+    typeset::register(&mut env);
     env.add_filter("direction", loop_map::direction_words);
     for (name, source) in theme.templates()? {
         env.add_template_owned(name.to_owned(), source.to_owned())
@@ -324,6 +332,8 @@ struct SiteIndex<'a> {
     loops: BTreeMap<&'a str, String>,
     /// Finding counts by severity slug, for every reaction id.
     reaction_counts: BTreeMap<&'a str, BTreeMap<&'static str, usize>>,
+    /// Direction badges and one-line verdict of every reaction id.
+    verdicts: BTreeMap<&'a str, verdicts::ReactionVerdicts>,
 }
 
 fn site_index(report: &Report) -> SiteIndex<'_> {
@@ -449,6 +459,7 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
         metabolites,
         loops,
         reaction_counts,
+        verdicts: verdicts::reaction_verdicts(report),
     }
 }
 
@@ -524,20 +535,6 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             context! { kinds => crate::report::kinds::site_rows(report) },
         ),
         page(
-            "reactions.html",
-            "reactions/index.html".into(),
-            "reactions",
-            "Reactions",
-            context! {},
-        ),
-        page(
-            "metabolites.html",
-            "metabolites/index.html".into(),
-            "metabolites",
-            "Metabolites",
-            context! {},
-        ),
-        page(
             "coverage.html",
             "coverage.html".into(),
             "coverage",
@@ -545,6 +542,29 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             context! { missing_csv => coverage::MISSING_CSV },
         ),
     ];
+    for (template, dir, title, total) in [
+        (
+            "reactions.html",
+            "reactions",
+            "Reactions",
+            report.reactions.len(),
+        ),
+        (
+            "metabolites.html",
+            "metabolites",
+            "Metabolites",
+            report.metabolites.len(),
+        ),
+    ] {
+        for p in lists::pages(dir, total) {
+            let title = match p.pages {
+                1 => title.to_string(),
+                n => format!("{title} ({} of {n})", p.number),
+            };
+            let extra = context! { pager => Value::from_serialize(&p) };
+            out.push(page(template, p.path, dir, &title, extra));
+        }
+    }
     let maps = map::MapContext::new(report);
     out.extend(
         map_pages(&maps, files)
@@ -606,6 +626,13 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             context! {
                 item => Value::from_serialize(metabolite),
                 findings => findings_of(index.metabolite_findings.get(metabolite.id.as_str())),
+                verdict_line => Value::from_serialize(verdicts::metabolite_line(
+                    &index.metabolite_findings.get(metabolite.id.as_str())
+                        .map_or(Vec::new(), |v| v.iter().map(|&i| &report.findings[i]).collect::<Vec<_>>()),
+                    metabolite.dfg_prime.is_some(),
+                    metabolite.consumed_by.len() + metabolite.produced_by.len(),
+                    &metabolite.special,
+                )),
                 species_chart => chart.as_ref().map(|c| Value::from_safe_string(c.svg.clone())),
                 // Labels of the species too scarce to draw.
                 not_drawn => chart.as_ref().map(|c| {

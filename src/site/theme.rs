@@ -41,8 +41,11 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "map.html",
     "map_section.html",
     "style.css",
+    "pages.css",
     "table.js",
     "map.js",
+    "search.js",
+    "pager.html",
 ];
 
 /// The theme in use: file name (with `/` between folders) → content.
