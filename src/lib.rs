@@ -17,6 +17,7 @@ pub mod lp;
 pub mod model;
 pub mod network;
 pub mod pipeline;
+pub mod progress;
 pub mod project;
 pub mod report;
 pub mod scenarios;

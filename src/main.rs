@@ -6,6 +6,7 @@
 //! output failed (disk full, permission).
 
 use clap::{Parser, Subcommand, ValueEnum};
+use gibbsite::progress::Progress;
 use gibbsite::report::{baseline, Report, Severity};
 use gibbsite::{pipeline, Error, Project};
 use std::path::{Path, PathBuf};
@@ -23,6 +24,19 @@ struct Cli {
     /// Largest input file (and decompressed SBML) read, e.g. `512M`, `2G`.
     #[arg(long, global = true, value_name = "SIZE", default_value = "256M", value_parser = parse_size)]
     max_input_size: u64,
+    /// Print nothing on stderr but warnings and errors (no progress, no
+    /// summary line).
+    #[arg(short, long, global = true)]
+    quiet: bool,
+    /// Print the wall time of every stage on stderr at the end.
+    #[arg(long, global = true)]
+    timings: bool,
+}
+
+/// What the CLI prints on stderr besides warnings and errors.
+struct Output {
+    quiet: bool,
+    timings: bool,
 }
 
 fn parse_size(text: &str) -> Result<u64, String> {
@@ -193,7 +207,11 @@ fn main() -> ExitCode {
         }
     };
     gibbsite::project::read::set_max_input_size(cli.max_input_size);
-    match run(cli.command) {
+    let output = Output {
+        quiet: cli.quiet,
+        timings: cli.timings,
+    };
+    match run(cli.command, &output) {
         Ok(code) => code,
         Err(e) => {
             eprintln!("{e}");
@@ -202,7 +220,8 @@ fn main() -> ExitCode {
     }
 }
 
-fn run(command: Command) -> Result<ExitCode, Error> {
+fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
+    let progress = Progress::new(shown.quiet);
     if let Err(message) = gibbsite::report::build::source_date_epoch() {
         return Err(Error::input(gibbsite::Diagnostic::new(
             Path::new("SOURCE_DATE_EPOCH"),
@@ -212,7 +231,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
     match command {
         Command::Build {
             project,
-            output,
+            output: out_dir,
             fail_on,
             baseline,
             data,
@@ -220,17 +239,19 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             confine,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = load(&project, &data, &confine.options())?;
-            let report = pipeline::report_of(&loaded);
-            let out = output.unwrap_or_else(|| default_output(&project));
+            let loaded = load(&project, &data, &confine.options(), &progress)?;
+            let report = pipeline::report_with(&loaded, &progress);
+            let out = out_dir.unwrap_or_else(|| default_output(&project));
             let theme = if no_project_theme {
                 None
             } else {
                 loaded.settings.theme_dir.as_deref()
             };
-            pipeline::render(&report, theme, &out)?;
-            print_summary(&report);
-            eprintln!("site written to {}", out.display());
+            pipeline::render_with(&report, theme, &out, &progress)?;
+            shown.finish(&report, &progress);
+            if !shown.quiet {
+                eprintln!("site written to {}", out.display());
+            }
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
         Command::Import {
@@ -251,13 +272,15 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 &conditions,
                 force,
             )?;
-            eprintln!(
-                "{} reactions, {} metabolites, {} compartments written to {}",
-                model.reactions.len(),
-                model.metabolites.len(),
-                model.compartments.len(),
-                output.display()
-            );
+            if !shown.quiet {
+                eprintln!(
+                    "{} reactions, {} metabolites, {} compartments written to {}",
+                    model.reactions.len(),
+                    model.metabolites.len(),
+                    model.compartments.len(),
+                    output.display()
+                );
+            }
             Ok(ExitCode::SUCCESS)
         }
         Command::Collection { action } => run_collection(action),
@@ -270,8 +293,8 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             confine,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = load(&project, &data, &confine.options())?;
-            let report = pipeline::report_of(&loaded);
+            let loaded = load(&project, &data, &confine.options(), &progress)?;
+            let report = pipeline::report_with(&loaded, &progress);
             let model_file = loaded
                 .settings
                 .model_files
@@ -292,7 +315,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                     print!("{}", gibbsite::report::summary::to_markdown(&report, 50))
                 }
             }
-            print_summary(&report);
+            shown.finish(&report, &progress);
             Ok(exit_code(&report, fail_on, baseline.as_ref()))
         }
     }
@@ -303,8 +326,9 @@ fn load(
     project: &Path,
     data: &[PathBuf],
     options: &gibbsite::project::LoadOptions,
+    progress: &Progress,
 ) -> Result<Project, Error> {
-    let loaded = pipeline::load(project, data, options)?;
+    let loaded = pipeline::load_with(project, data, options, progress)?;
     for w in loaded.warnings() {
         eprintln!("{w}");
     }
@@ -368,6 +392,18 @@ fn default_output(project: &Path) -> PathBuf {
     }
     let stem = name.split('.').next().unwrap_or("model");
     PathBuf::from(format!("{}-site", gibbsite::slug::slug(stem)))
+}
+
+impl Output {
+    /// The summary line and, with `--timings`, the table of stage times.
+    fn finish(&self, report: &Report, progress: &Progress) {
+        if !self.quiet {
+            print_summary(report);
+        }
+        if self.timings {
+            eprint!("{}", progress.timings().table());
+        }
+    }
 }
 
 fn print_summary(report: &Report) {

@@ -35,6 +35,7 @@ pub mod theme;
 pub mod write;
 
 use crate::error::Error;
+use crate::progress::Progress;
 use crate::report::{Finding, Report, Severity};
 use minijinja::value::Value;
 use minijinja::{context, AutoEscape, Environment, UndefinedBehavior};
@@ -53,6 +54,17 @@ use write::Staging;
 /// any) is untouched and no temporary folder remains. A non-empty `out`
 /// that was not made by gibbsite is never replaced.
 pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(), Error> {
+    render_with_progress(report, theme_dir, out, &Progress::hidden())
+}
+
+/// [`render`], shown and timed as the `pages` stage of `progress`.
+pub fn render_with_progress(
+    report: &Report,
+    theme_dir: Option<&Path>,
+    out: &Path,
+    progress: &Progress,
+) -> Result<(), Error> {
+    let mut stage = progress.stage(crate::progress::PAGES, None);
     let theme = Theme::load(theme_dir)?;
     let env = environment(&theme)?;
     let sorted = sorted_report(report);
@@ -71,9 +83,12 @@ pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(
         staging.write(&format!("assets/{name}"), bytes)?;
     }
     let mut files = Vec::new();
-    for page in pages(&sorted, &mut files) {
+    let pages = pages(&sorted, &mut files);
+    stage.set_length(pages.len() as u64);
+    for page in pages {
         let html = render_page(&env, &theme, &page)?;
         staging.write(&page.path, html.as_bytes())?;
+        stage.inc(1);
     }
     // Standalone copies of the maps (for papers and slides).
     for (path, svg) in files {
