@@ -71,11 +71,10 @@ pub fn render_with_progress(
     check_slugs(&sorted)?;
 
     let staging = Staging::new(out)?;
-    let json = serde_json::to_string_pretty(report).map_err(|e| Error::Render {
-        template: "report.json".into(),
-        message: e.to_string(),
-    })?;
-    staging.write("report.json", format!("{json}\n").as_bytes())?;
+    staging.write(
+        "report.json",
+        crate::report::json::to_json(report).as_bytes(),
+    )?;
     if let Some(csv) = coverage::missing_csv(&sorted) {
         staging.write(coverage::MISSING_CSV, csv.as_bytes())?;
     }
