@@ -124,6 +124,14 @@ pub enum ErrorKey {
 
 impl<'a> Analysis<'a> {
     pub fn new(model: &'a Model, settings: &'a Settings) -> Analysis<'a> {
+        let mut analysis = Analysis::without_loops(model, settings);
+        analysis.add_loops();
+        analysis
+    }
+
+    /// Everything but the loop analysis: energies, error model, scenarios
+    /// (`pipeline` times the two parts as separate stages).
+    pub fn without_loops(model: &'a Model, settings: &'a Settings) -> Analysis<'a> {
         let network = Network::build(model);
         let metabolites: Vec<MetaboliteThermo> = (0..model.metabolites.len())
             .map(|i| crate::thermo::metabolite::resolve(model, i))
@@ -162,10 +170,14 @@ impl<'a> Analysis<'a> {
                 extra_conflict_sets: settings.extra_conflict_sets,
             },
         );
-        if settings.loops {
-            analysis.loops = Some(analysis.run_loops());
-        }
         analysis
+    }
+
+    /// The loop analysis, when the project has it switched on.
+    pub fn add_loops(&mut self) {
+        if self.settings.loops {
+            self.loops = Some(self.run_loops());
+        }
     }
 
     /// Internal loops, their energies and energy-generating cycles.

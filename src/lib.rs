@@ -18,6 +18,7 @@ pub mod model;
 pub mod network;
 pub mod outcome;
 pub mod pipeline;
+pub mod progress;
 pub mod project;
 pub mod report;
 pub mod scenarios;

@@ -7,6 +7,7 @@
 
 use clap::{Parser, Subcommand, ValueEnum};
 use gibbsite::outcome::Outcome;
+use gibbsite::progress::Progress;
 use gibbsite::report::{baseline, kinds::KindFilter, Report};
 use gibbsite::{pipeline, Error, Project};
 use std::path::{Path, PathBuf};
@@ -33,6 +34,19 @@ struct Cli {
     /// Largest input file (and decompressed SBML) read, e.g. `512M`, `2G`.
     #[arg(long, global = true, value_name = "SIZE", default_value = "256M", value_parser = parse_size)]
     max_input_size: u64,
+    /// Print nothing on stderr but warnings and errors (no progress, no
+    /// summary line).
+    #[arg(short, long, global = true)]
+    quiet: bool,
+    /// Print the wall time of every stage on stderr at the end.
+    #[arg(long, global = true)]
+    timings: bool,
+}
+
+/// What the CLI prints on stderr besides warnings and errors.
+struct Output {
+    quiet: bool,
+    timings: bool,
 }
 
 fn parse_size(text: &str) -> Result<u64, String> {
@@ -284,7 +298,11 @@ fn main() -> ExitCode {
         }
     };
     gibbsite::project::read::set_max_input_size(cli.max_input_size);
-    match run(cli.command) {
+    let output = Output {
+        quiet: cli.quiet,
+        timings: cli.timings,
+    };
+    match run(cli.command, &output) {
         Ok(code) => code,
         Err(e) => {
             eprintln!("{e}");
@@ -293,7 +311,8 @@ fn main() -> ExitCode {
     }
 }
 
-fn run(command: Command) -> Result<ExitCode, Error> {
+fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
+    let progress = Progress::new(shown.quiet);
     if let Err(message) = gibbsite::report::build::source_date_epoch() {
         return Err(Error::input(gibbsite::Diagnostic::new(
             Path::new("SOURCE_DATE_EPOCH"),
@@ -303,7 +322,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
     match command {
         Command::Build {
             project,
-            output,
+            output: out_dir,
             fail_on,
             baseline,
             data,
@@ -315,22 +334,24 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 .as_deref()
                 .map(|p| Ok::<_, Error>((p, baseline::load(p)?)));
             let baseline = baseline.transpose()?;
-            let loaded = load(&project, &data, &confine.options())?;
-            let mut report = pipeline::report_of(&loaded);
+            let loaded = load(&project, &data, &confine.options(), &progress)?;
+            let mut report = pipeline::report_with(&loaded, &progress);
             let outcome = findings.settle(
                 &mut report,
                 fail_on,
                 baseline.as_ref().map(|(p, b)| (*p, b)),
             )?;
-            let out = output.unwrap_or_else(|| default_output(&project));
+            let out = out_dir.unwrap_or_else(|| default_output(&project));
             let theme = if no_project_theme {
                 None
             } else {
                 loaded.settings.theme_dir.as_deref()
             };
-            pipeline::render(&report, theme, &out)?;
-            print_summary(&report);
-            eprintln!("site written to {}", out.display());
+            pipeline::render_with(&report, theme, &out, &progress)?;
+            shown.finish(&report, &progress);
+            if !shown.quiet {
+                eprintln!("site written to {}", out.display());
+            }
             println!("{}", outcome.line());
             Ok(ExitCode::from(outcome.exit_code()))
         }
@@ -352,13 +373,15 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 &conditions,
                 force,
             )?;
-            eprintln!(
-                "{} reactions, {} metabolites, {} compartments written to {}",
-                model.reactions.len(),
-                model.metabolites.len(),
-                model.compartments.len(),
-                output.display()
-            );
+            if !shown.quiet {
+                eprintln!(
+                    "{} reactions, {} metabolites, {} compartments written to {}",
+                    model.reactions.len(),
+                    model.metabolites.len(),
+                    model.compartments.len(),
+                    output.display()
+                );
+            }
             Ok(ExitCode::SUCCESS)
         }
         Command::Collection { action } => run_collection(action),
@@ -377,8 +400,8 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 .as_deref()
                 .map(|p| Ok::<_, Error>((p, baseline::load(p)?)));
             let baseline = baseline.transpose()?;
-            let loaded = load(&project, &data, &confine.options())?;
-            let mut report = pipeline::report_of(&loaded);
+            let loaded = load(&project, &data, &confine.options(), &progress)?;
+            let mut report = pipeline::report_with(&loaded, &progress);
             let outcome = findings.settle(
                 &mut report,
                 fail_on,
@@ -405,8 +428,8 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 ),
             }
             // Text and Markdown end with the pass/fail line themselves.
-            if matches!(format, Format::Json | Format::Sarif) {
-                print_summary(&report);
+            shown.finish(&report, &progress);
+            if matches!(format, Format::Json | Format::Sarif) && !shown.quiet {
                 eprintln!("{}", outcome.line());
             }
             Ok(ExitCode::from(outcome.exit_code()))
@@ -419,8 +442,9 @@ fn load(
     project: &Path,
     data: &[PathBuf],
     options: &gibbsite::project::LoadOptions,
+    progress: &Progress,
 ) -> Result<Project, Error> {
-    let loaded = pipeline::load(project, data, options)?;
+    let loaded = pipeline::load_with(project, data, options, progress)?;
     for w in loaded.warnings() {
         eprintln!("{w}");
     }
@@ -480,6 +504,18 @@ fn default_output(project: &Path) -> PathBuf {
     }
     let stem = name.split('.').next().unwrap_or("model");
     PathBuf::from(format!("{}-site", gibbsite::slug::slug(stem)))
+}
+
+impl Output {
+    /// The summary line and, with `--timings`, the table of stage times.
+    fn finish(&self, report: &Report, progress: &Progress) {
+        if !self.quiet {
+            print_summary(report);
+        }
+        if self.timings {
+            eprint!("{}", progress.timings().table());
+        }
+    }
 }
 
 fn print_summary(report: &Report) {

@@ -14,6 +14,7 @@ use crate::analysis::Analysis;
 use crate::checks;
 use crate::error::Result;
 use crate::finding::Finding;
+use crate::progress::{self, Progress};
 use crate::project::{LoadOptions, Project};
 use crate::report::{CheckInfo, Report};
 use std::path::{Path, PathBuf};
@@ -21,14 +22,37 @@ use std::path::{Path, PathBuf};
 /// Load a project (folder, settings file, model YAML or SBML) and apply the
 /// extra side tables given on the command line after its own.
 pub fn load(path: &Path, tables: &[PathBuf], options: &LoadOptions) -> Result<Project> {
+    load_with(path, tables, options, &Progress::hidden())
+}
+
+/// [`load`], timed as the `import` stage.
+pub fn load_with(
+    path: &Path,
+    tables: &[PathBuf],
+    options: &LoadOptions,
+    progress: &Progress,
+) -> Result<Project> {
+    let _stage = progress.stage(progress::IMPORT, None);
     let mut project = Project::load_with(path, options)?;
     project.add_tables(tables)?;
     Ok(project)
 }
 
-/// Compute energies, loops and scenarios once.
+/// Compute energies, scenarios and loops once.
 pub fn analyse(project: &Project) -> Analysis<'_> {
-    Analysis::new(&project.model, &project.settings)
+    analyse_with(project, &Progress::hidden())
+}
+
+/// [`analyse`], timed as the `thermodynamics` and `loops` stages.
+pub fn analyse_with<'a>(project: &'a Project, progress: &Progress) -> Analysis<'a> {
+    let stage = progress.stage(progress::THERMODYNAMICS, None);
+    let mut analysis = Analysis::without_loops(&project.model, &project.settings);
+    stage.finish();
+    if project.settings.loops {
+        let _stage = progress.stage(progress::LOOPS, None);
+        analysis.add_loops();
+    }
+    analysis
 }
 
 /// Run every registered check over the analysed data.
@@ -58,15 +82,34 @@ pub fn report(project: &Project, analysis: &Analysis, findings: Vec<Finding>) ->
 
 /// analyse → checks → report.
 pub fn report_of(project: &Project) -> Report {
-    let analysis = analyse(project);
+    report_with(project, &Progress::hidden())
+}
+
+/// [`report_of`], each stage timed (`thermodynamics`, `loops`, `checks`,
+/// `report`).
+pub fn report_with(project: &Project, progress: &Progress) -> Report {
+    let analysis = analyse_with(project, progress);
+    let stage = progress.stage(progress::CHECKS, None);
     let findings = check(&analysis);
+    stage.finish();
+    let _stage = progress.stage(progress::REPORT, None);
     report(project, &analysis, findings)
 }
 
 /// Write the site for `report` (with the theme folder, if any) into `out`,
 /// replacing an earlier site only once the new one is complete.
 pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<()> {
-    crate::site::render(report, theme_dir, out)
+    render_with(report, theme_dir, out, &Progress::hidden())
+}
+
+/// [`render`], timed as the `pages` stage (counting pages written).
+pub fn render_with(
+    report: &Report,
+    theme_dir: Option<&Path>,
+    out: &Path,
+    progress: &Progress,
+) -> Result<()> {
+    crate::site::render_with_progress(report, theme_dir, out, progress)
 }
 
 impl Project {

@@ -16,7 +16,7 @@ pub fn load(path: &Path) -> Result<Report> {
             format!("cannot read baseline: {}", d.message),
         ))
     })?;
-    serde_json::from_str(&text).map_err(|e| {
+    super::json::from_json(&text).map_err(|e| {
         Error::input(
             Diagnostic::new(path, format!("not a gibbsite report.json: {e}"))
                 .at(e.line(), e.column()),

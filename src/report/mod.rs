@@ -20,7 +20,9 @@ pub use crate::finding::{Finding, Severity, Verdict};
 pub use scenario_view::*;
 
 /// Version of the `report.json` shape; bump on breaking changes.
-pub const REPORT_SCHEMA_VERSION: u32 = 1;
+/// Version 2: `report.json` is compact and leaves out what it repeats
+/// (see `json`).
+pub const REPORT_SCHEMA_VERSION: u32 = 2;
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Report {
@@ -84,14 +86,21 @@ pub struct GroupCoverageView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct MissingMetaboliteView {
     pub metabolite: String,
+    /// `slug` (`slug::slug` of the id), `name`, `compartment`, `formula` and
+    /// `xrefs`: the metabolite's own (left out of report.json).
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub slug: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub name: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub compartment: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub formula: Option<String>,
     /// Internal reactions lacking ΔrG'° that need this ΔfG'°.
     pub blocks: usize,
     /// Of those, the ones where it is the only missing ΔfG'°.
     pub only_gap: usize,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub xrefs: BTreeMap<String, Vec<String>>,
 }
 
@@ -164,14 +173,20 @@ pub struct LoopView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct LoopMemberView {
     pub reaction: String,
+    /// `slug`, `name`, `equation` and `participants`: the reaction's own
+    /// (left out of report.json, see `json`).
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub slug: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub name: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub equation: String,
     /// Relative flux around the loop: negative = runs backward.
     pub coefficient: f64,
     pub drg0_kj: Option<f64>,
     pub sigma_kj: Option<f64>,
     /// (metabolite id, slug, coefficient in the reaction) for the cycle map.
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub participants: Vec<ParticipantView>,
 }
 
@@ -402,7 +417,10 @@ pub struct TransportView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ParticipantView {
     pub metabolite: String,
+    /// `slug` and `name`: the metabolite's own (left out of report.json).
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub slug: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub name: String,
     /// Signed coefficient (negative = consumed).
     pub coefficient: f64,
