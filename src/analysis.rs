@@ -1,16 +1,17 @@
-//! The analysis context shared by all checks: the model, its network, and
-//! the energies computed once (per metabolite ΔfG'°, per reaction ΔrG'°, K'
-//! and ΔG' range). Checks read it; none of them changes it.
+//! The analysed data every check reads: the model, its network, and the
+//! energies computed once (per metabolite ΔfG'°, per reaction ΔrG'°, K' and
+//! ΔG' range), loops and scenarios. Checks read it; none of them changes it.
+//! This module knows nothing of checks, findings' consumers or the report:
+//! `pipeline` runs the stages in order.
 
-use crate::checks;
+use crate::finding::Verdict;
 use crate::loops::{
     self, CurrencyOptions, DeltaGRange, EnergyCycleAnalysis, LoopAnalysis, LoopEnergy,
     LoopEnergyOptions, LoopError, StandardDeltaG,
 };
 use crate::model::{Model, Range, Role, Special};
 use crate::network::Network;
-use crate::project::{Project, Settings};
-use crate::report::{Finding, Report, Verdict};
+use crate::project::Settings;
 use crate::thermo::errors::{ErrorModel, ErrorSource};
 use crate::thermo::reaction::{self, Participant};
 use crate::thermo::transport::{self, CompartmentState, Participant as TransportParticipant};
@@ -123,6 +124,14 @@ pub enum ErrorKey {
 
 impl<'a> Analysis<'a> {
     pub fn new(model: &'a Model, settings: &'a Settings) -> Analysis<'a> {
+        let mut analysis = Analysis::without_loops(model, settings);
+        analysis.add_loops();
+        analysis
+    }
+
+    /// Everything but the loop analysis: energies, error model, scenarios
+    /// (`pipeline` times the two parts as separate stages).
+    pub fn without_loops(model: &'a Model, settings: &'a Settings) -> Analysis<'a> {
         let network = Network::build(model);
         let metabolites: Vec<MetaboliteThermo> = (0..model.metabolites.len())
             .map(|i| crate::thermo::metabolite::resolve(model, i))
@@ -161,10 +170,14 @@ impl<'a> Analysis<'a> {
                 extra_conflict_sets: settings.extra_conflict_sets,
             },
         );
-        if settings.loops {
-            analysis.loops = Some(analysis.run_loops());
-        }
         analysis
+    }
+
+    /// The loop analysis, when the project has it switched on.
+    pub fn add_loops(&mut self) {
+        if self.settings.loops {
+            self.loops = Some(self.run_loops());
+        }
     }
 
     /// Internal loops, their energies and energy-generating cycles.
@@ -517,26 +530,6 @@ impl<'a> Analysis<'a> {
     pub fn is_thermodynamic(&self, j: usize) -> bool {
         self.model.reactions[j].role == Role::Internal
     }
-
-    /// Run every registered check.
-    pub fn findings(&self) -> Vec<Finding> {
-        let mut findings: Vec<Finding> = checks::REGISTRY
-            .iter()
-            .flat_map(|check| (check.run)(self))
-            .collect();
-        checks::compartment_conditions::soften(self, &mut findings);
-        crate::report::build::sort_findings(&mut findings);
-        findings
-    }
-}
-
-impl Project {
-    /// Analyse the project and return the report every output is made from.
-    pub fn analyse(&self) -> Report {
-        let analysis = Analysis::new(&self.model, &self.settings);
-        let findings = analysis.findings();
-        crate::report::build::build(self, &analysis, findings)
-    }
 }
 
 /// H atoms and charge a metabolite carries across a membrane as written:
@@ -564,6 +557,7 @@ fn carried_hydrogens_and_charge(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::project::Project;
 
     /// The demo's compounds: what crosses the membrane is one compound on
     /// both sides (same library entry or identical species data); the rest

@@ -1,19 +1,24 @@
 //! gibbsite: a static report on the thermodynamic consistency of a metabolic
 //! model.
 //!
-//! The pipeline runs one way (see DEVELOPERS.md):
+//! The pipeline runs one way (see DEVELOPERS.md), driven by [`pipeline`]:
 //! `project` (load) → [`model::Model`] → [`network::Network`] →
-//! [`analysis`] (checks) → [`report::Report`] → [`site`] (render).
+//! [`analysis`] → [`checks`] ([`finding::Finding`]) → [`report::Report`] →
+//! [`site`] (render).
 
 pub mod analysis;
 pub mod checks;
 pub mod chem;
 pub mod collection;
 pub mod error;
+pub mod finding;
 pub mod loops;
 pub mod lp;
 pub mod model;
 pub mod network;
+pub mod outcome;
+pub mod pipeline;
+pub mod progress;
 pub mod project;
 pub mod report;
 pub mod scenarios;

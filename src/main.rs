@@ -6,16 +6,27 @@
 //! output failed (disk full, permission).
 
 use clap::{Parser, Subcommand, ValueEnum};
-use gibbsite::report::{baseline, Report, Severity};
-use gibbsite::{Error, Project};
+use gibbsite::outcome::Outcome;
+use gibbsite::progress::Progress;
+use gibbsite::report::{baseline, kinds::KindFilter, Report};
+use gibbsite::{pipeline, Error, Project};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
+
+/// Shown at the end of `--help` of the program and its analysing commands.
+const EXIT_CODES: &str = "\
+Exit codes:
+  0  no finding at or above the --fail-on level (or only ones already in the --baseline)
+  1  at least one such finding
+  2  bad input or usage (the message names the file, line and what was expected)
+  3  writing the output failed (disk full, permission)";
 
 #[derive(Parser)]
 #[command(
     name = "gibbsite",
     version,
-    about = "Thermodynamic consistency report for metabolic models"
+    about = "Thermodynamic consistency report for metabolic models",
+    after_help = EXIT_CODES
 )]
 struct Cli {
     #[command(subcommand)]
@@ -23,6 +34,19 @@ struct Cli {
     /// Largest input file (and decompressed SBML) read, e.g. `512M`, `2G`.
     #[arg(long, global = true, value_name = "SIZE", default_value = "256M", value_parser = parse_size)]
     max_input_size: u64,
+    /// Print nothing on stderr but warnings and errors (no progress, no
+    /// summary line).
+    #[arg(short, long, global = true)]
+    quiet: bool,
+    /// Print the wall time of every stage on stderr at the end.
+    #[arg(long, global = true)]
+    timings: bool,
+}
+
+/// What the CLI prints on stderr besides warnings and errors.
+struct Output {
+    quiet: bool,
+    timings: bool,
 }
 
 fn parse_size(text: &str) -> Result<u64, String> {
@@ -47,9 +71,59 @@ impl Confine {
     }
 }
 
+/// Which findings count, and against which baseline (build and check).
+#[derive(clap::Args)]
+struct Findings {
+    /// Keep only findings of this kind (repeatable); the others are left
+    /// out of every output and of the exit code.
+    #[arg(long, value_name = "KIND", value_parser = kind_parser())]
+    only: Vec<String>,
+    /// Leave out findings of this kind (repeatable).
+    #[arg(long, value_name = "KIND", value_parser = kind_parser())]
+    skip: Vec<String>,
+    /// Accept a --baseline made from a model with a different id.
+    #[arg(long)]
+    baseline_any_model: bool,
+}
+
+fn kind_parser() -> clap::builder::PossibleValuesParser {
+    use gibbsite::report::kinds;
+    // Each kind's one-line summary is its help in `--help`.
+    clap::builder::PossibleValuesParser::new(gibbsite::checks::kinds().into_iter().map(|k| {
+        let value = clap::builder::PossibleValue::new(k);
+        match kinds::help(k) {
+            Some(h) => value.help(h.summary),
+            None => value,
+        }
+    }))
+}
+
+impl Findings {
+    /// Filter the report, check the baseline's model, decide pass or fail.
+    fn settle(
+        &self,
+        report: &mut Report,
+        fail_on: FailOn,
+        baseline: Option<(&Path, &Report)>,
+    ) -> Result<Outcome, Error> {
+        let filter = KindFilter::new(&self.only, &self.skip, &gibbsite::checks::kinds())
+            .map_err(|e| Error::input(gibbsite::Diagnostic::new(Path::new("--only/--skip"), e)))?;
+        filter.apply(report);
+        if let Some((path, b)) = baseline {
+            baseline::check_model(report, b, path, self.baseline_any_model)?;
+        }
+        Ok(Outcome::decide(
+            report,
+            fail_on.level(),
+            baseline.map(|(_, b)| b),
+        ))
+    }
+}
+
 #[derive(Subcommand)]
 enum Command {
     /// Analyse a project and write the report site.
+    #[command(after_help = EXIT_CODES)]
     Build {
         /// Project folder, gibbsite.yaml, model .yaml or SBML file (.xml, .xml.gz).
         project: PathBuf,
@@ -57,6 +131,7 @@ enum Command {
         /// `<model>-site` in the current folder for a single file).
         #[arg(short, long)]
         output: Option<PathBuf>,
+        /// Lowest severity that makes the run exit with 1 (see "Exit codes").
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
         /// Earlier report.json: only findings not in it decide the exit code.
@@ -72,6 +147,8 @@ enum Command {
         no_project_theme: bool,
         #[command(flatten)]
         confine: Confine,
+        #[command(flatten)]
+        findings: Findings,
     },
     /// Convert an SBML model (.xml or .xml.gz) into a gibbsite project folder.
     Import {
@@ -95,9 +172,11 @@ enum Command {
         action: CollectionAction,
     },
     /// Analyse a project and print the findings; writes nothing.
+    #[command(after_help = EXIT_CODES)]
     Check {
         /// Project folder, gibbsite.yaml, model .yaml or SBML file (.xml, .xml.gz).
         project: PathBuf,
+        /// Lowest severity that makes the run exit with 1 (see "Exit codes").
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
         /// Earlier report.json: only findings not in it decide the exit code.
@@ -112,6 +191,16 @@ enum Command {
         format: Format,
         #[command(flatten)]
         confine: Confine,
+        #[command(flatten)]
+        findings: Findings,
+        /// Folder that SARIF file paths are relative to (the repository
+        /// root in CI; default: the current folder).
+        #[arg(long, value_name = "DIR", default_value = ".")]
+        sarif_root: PathBuf,
+        /// Absolute URL where the report site is published; SARIF rules
+        /// link to their kind in it.
+        #[arg(long, value_name = "URL", value_parser = gibbsite::report::sarif::parse_report_url)]
+        report_url: Option<String>,
     },
 }
 
@@ -137,6 +226,7 @@ enum CollectionAction {
         /// `collection merge`.
         #[arg(long, value_name = "I/N")]
         shard: Option<gibbsite::collection::shard::ShardSpec>,
+        /// Lowest severity that makes the run exit with 1 (see "Exit codes").
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
         /// Overview title (default: from the folder or list file name).
@@ -151,6 +241,7 @@ enum CollectionAction {
         /// Output folder (may be one of the slice folders).
         #[arg(short, long)]
         output: PathBuf,
+        /// Lowest severity that makes the run exit with 1 (see "Exit codes").
         #[arg(long, value_enum, default_value_t = FailOn::Error)]
         fail_on: FailOn,
         /// Overview title (default: the one the slices were built with).
@@ -162,7 +253,7 @@ enum CollectionAction {
 /// Output of `check`.
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
 enum Format {
-    /// One line per finding.
+    /// Findings grouped by kind with counts, then a pass/fail line.
     Text,
     /// The full report (as report.json).
     Json,
@@ -172,11 +263,25 @@ enum Format {
     Markdown,
 }
 
+impl FailOn {
+    fn level(self) -> gibbsite::collection::FailLevel {
+        use gibbsite::collection::FailLevel;
+        match self {
+            FailOn::Error => FailLevel::Error,
+            FailOn::Warning => FailLevel::Warning,
+            FailOn::Never => FailLevel::Never,
+        }
+    }
+}
+
 /// Which findings make the run exit with 1.
 #[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
 enum FailOn {
+    /// Exit 1 when a finding of severity error is present.
     Error,
+    /// Exit 1 when a finding of severity error or warning is present.
     Warning,
+    /// Always exit 0 after a complete run (bad input still exits 2).
     Never,
 }
 
@@ -193,7 +298,11 @@ fn main() -> ExitCode {
         }
     };
     gibbsite::project::read::set_max_input_size(cli.max_input_size);
-    match run(cli.command) {
+    let output = Output {
+        quiet: cli.quiet,
+        timings: cli.timings,
+    };
+    match run(cli.command, &output) {
         Ok(code) => code,
         Err(e) => {
             eprintln!("{e}");
@@ -202,7 +311,8 @@ fn main() -> ExitCode {
     }
 }
 
-fn run(command: Command) -> Result<ExitCode, Error> {
+fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
+    let progress = Progress::new(shown.quiet);
     if let Err(message) = gibbsite::report::build::source_date_epoch() {
         return Err(Error::input(gibbsite::Diagnostic::new(
             Path::new("SOURCE_DATE_EPOCH"),
@@ -212,26 +322,38 @@ fn run(command: Command) -> Result<ExitCode, Error> {
     match command {
         Command::Build {
             project,
-            output,
+            output: out_dir,
             fail_on,
             baseline,
             data,
             no_project_theme,
             confine,
+            findings,
         } => {
-            let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = load(&project, &data, &confine.options())?;
-            let report = loaded.analyse();
-            let out = output.unwrap_or_else(|| default_output(&project));
+            let baseline = baseline
+                .as_deref()
+                .map(|p| Ok::<_, Error>((p, baseline::load(p)?)));
+            let baseline = baseline.transpose()?;
+            let loaded = load(&project, &data, &confine.options(), &progress)?;
+            let mut report = pipeline::report_with(&loaded, &progress);
+            let outcome = findings.settle(
+                &mut report,
+                fail_on,
+                baseline.as_ref().map(|(p, b)| (*p, b)),
+            )?;
+            let out = out_dir.unwrap_or_else(|| default_output(&project));
             let theme = if no_project_theme {
                 None
             } else {
                 loaded.settings.theme_dir.as_deref()
             };
-            gibbsite::site::render(&report, theme, &out)?;
-            print_summary(&report);
-            eprintln!("site written to {}", out.display());
-            Ok(exit_code(&report, fail_on, baseline.as_ref()))
+            pipeline::render_with(&report, theme, &out, &progress)?;
+            shown.finish(&report, &progress);
+            if !shown.quiet {
+                eprintln!("site written to {}", out.display());
+            }
+            println!("{}", outcome.line());
+            Ok(ExitCode::from(outcome.exit_code()))
         }
         Command::Import {
             model,
@@ -251,13 +373,15 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 &conditions,
                 force,
             )?;
-            eprintln!(
-                "{} reactions, {} metabolites, {} compartments written to {}",
-                model.reactions.len(),
-                model.metabolites.len(),
-                model.compartments.len(),
-                output.display()
-            );
+            if !shown.quiet {
+                eprintln!(
+                    "{} reactions, {} metabolites, {} compartments written to {}",
+                    model.reactions.len(),
+                    model.metabolites.len(),
+                    model.compartments.len(),
+                    output.display()
+                );
+            }
             Ok(ExitCode::SUCCESS)
         }
         Command::Collection { action } => run_collection(action),
@@ -268,32 +392,47 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             format,
             data,
             confine,
+            findings,
+            sarif_root,
+            report_url,
         } => {
-            let baseline = baseline.as_deref().map(baseline::load).transpose()?;
-            let loaded = load(&project, &data, &confine.options())?;
-            let report = loaded.analyse();
-            let model_file = loaded
-                .settings
-                .model_files
-                .first()
-                .map(|p| p.to_string_lossy().into_owned());
+            let baseline = baseline
+                .as_deref()
+                .map(|p| Ok::<_, Error>((p, baseline::load(p)?)));
+            let baseline = baseline.transpose()?;
+            let loaded = load(&project, &data, &confine.options(), &progress)?;
+            let mut report = pipeline::report_with(&loaded, &progress);
+            let outcome = findings.settle(
+                &mut report,
+                fail_on,
+                baseline.as_ref().map(|(p, b)| (*p, b)),
+            )?;
             match format {
                 Format::Text => print!(
-                    "{}{}",
-                    gibbsite::report::text::findings_text(&report),
-                    gibbsite::report::text::scenario_verdicts_text(&report)
+                    "{}",
+                    gibbsite::report::text::grouped_text(&report, &outcome)
                 ),
                 Format::Json => print!("{}", gibbsite::report::json::to_json(&report)),
-                Format::Sarif => print!(
-                    "{}",
-                    gibbsite::report::sarif::to_sarif(&report, model_file.as_deref())
-                ),
-                Format::Markdown => {
-                    print!("{}", gibbsite::report::summary::to_markdown(&report, 50))
+                Format::Sarif => {
+                    let options = gibbsite::report::sarif::SarifOptions {
+                        root: sarif_root,
+                        report_url,
+                        model_files: loaded.settings.model_files.clone(),
+                        lines: loaded.source_lines.locate(),
+                    };
+                    print!("{}", gibbsite::report::sarif::to_sarif(&report, &options))
                 }
+                Format::Markdown => print!(
+                    "{}",
+                    gibbsite::report::summary::to_markdown(&report, &outcome, &[])
+                ),
             }
-            print_summary(&report);
-            Ok(exit_code(&report, fail_on, baseline.as_ref()))
+            // Text and Markdown end with the pass/fail line themselves.
+            shown.finish(&report, &progress);
+            if matches!(format, Format::Json | Format::Sarif) && !shown.quiet {
+                eprintln!("{}", outcome.line());
+            }
+            Ok(ExitCode::from(outcome.exit_code()))
         }
     }
 }
@@ -303,9 +442,9 @@ fn load(
     project: &Path,
     data: &[PathBuf],
     options: &gibbsite::project::LoadOptions,
+    progress: &Progress,
 ) -> Result<Project, Error> {
-    let mut loaded = Project::load_with(project, options)?;
-    loaded.add_tables(data)?;
+    let loaded = pipeline::load_with(project, data, options, progress)?;
     for w in loaded.warnings() {
         eprintln!("{w}");
     }
@@ -313,12 +452,8 @@ fn load(
 }
 
 fn run_collection(action: CollectionAction) -> Result<ExitCode, Error> {
-    use gibbsite::collection::{self, run::Limits, shard::ShardSpec, FailLevel};
-    let level = |f: FailOn| match f {
-        FailOn::Error => FailLevel::Error,
-        FailOn::Warning => FailLevel::Warning,
-        FailOn::Never => FailLevel::Never,
-    };
+    use gibbsite::collection::{self, run::Limits, shard::ShardSpec};
+    let level = FailOn::level;
     let finished = match action {
         CollectionAction::Build {
             input,
@@ -371,6 +506,18 @@ fn default_output(project: &Path) -> PathBuf {
     PathBuf::from(format!("{}-site", gibbsite::slug::slug(stem)))
 }
 
+impl Output {
+    /// The summary line and, with `--timings`, the table of stage times.
+    fn finish(&self, report: &Report, progress: &Progress) {
+        if !self.quiet {
+            print_summary(report);
+        }
+        if self.timings {
+            eprint!("{}", progress.timings().table());
+        }
+    }
+}
+
 fn print_summary(report: &Report) {
     eprintln!(
         "{} errors, {} warnings, {} notes ({} reactions, {} metabolites, {} scenarios)",
@@ -383,26 +530,74 @@ fn print_summary(report: &Report) {
     );
 }
 
-/// 1 when a finding at or above the `fail_on` level exists (with a
-/// baseline: one that the baseline does not have).
-fn exit_code(report: &Report, fail_on: FailOn, baseline: Option<&Report>) -> ExitCode {
-    let counted: Vec<&gibbsite::report::Finding> = match baseline {
-        Some(b) => {
-            let new = baseline::new_findings(report, b);
-            eprintln!("{} findings are new since the baseline", new.len());
-            new
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use clap::CommandFactory;
+
+    /// Every option, argument and possible value of every command, with the
+    /// path of commands leading to it, that has no help text.
+    fn without_help(command: &clap::Command, path: &str, out: &mut Vec<String>) {
+        for arg in command.get_arguments() {
+            let id = arg.get_id().as_str();
+            // clap's own --help and --version carry their text.
+            if id == "help" || id == "version" {
+                continue;
+            }
+            if arg.get_help().is_none() && arg.get_long_help().is_none() {
+                out.push(format!("{path} {id}"));
+            }
+            // Flags have the implicit values true/false; only real choices count.
+            let choices = if arg.get_action().takes_values() {
+                arg.get_possible_values()
+            } else {
+                Vec::new()
+            };
+            for value in choices {
+                if value.get_help().is_none() {
+                    out.push(format!("{path} {id}={}", value.get_name()));
+                }
+            }
         }
-        None => report.findings.iter().collect(),
-    };
-    let at_least = |s: Severity| counted.iter().filter(|f| f.severity <= s).count() > 0;
-    let failing = match fail_on {
-        FailOn::Never => false,
-        FailOn::Error => at_least(Severity::Error),
-        FailOn::Warning => at_least(Severity::Warning),
-    };
-    if failing {
-        ExitCode::from(1)
-    } else {
-        ExitCode::SUCCESS
+        for sub in command.get_subcommands() {
+            if sub.get_name() == "help" {
+                continue;
+            }
+            let sub_path = format!("{path} {}", sub.get_name());
+            if sub.get_about().is_none() {
+                out.push(format!("{sub_path} (command)"));
+            }
+            without_help(sub, &sub_path, out);
+        }
+    }
+
+    #[test]
+    fn every_command_option_and_argument_has_help_text() {
+        let command = Cli::command();
+        command.clone().debug_assert();
+        let mut missing = Vec::new();
+        without_help(&command, "gibbsite", &mut missing);
+        assert_eq!(missing, Vec::<String>::new(), "options without help text");
+    }
+
+    #[test]
+    fn help_lists_the_exit_codes() {
+        let mut command = Cli::command();
+        let help = command.render_long_help().to_string();
+        for line in [
+            "Exit codes:",
+            "  1  at least one such finding",
+            "  2  bad input",
+            "  3  writing the output failed",
+        ] {
+            assert!(help.contains(line), "`{line}` missing from:\n{help}");
+        }
+        let check = command.find_subcommand_mut("check").unwrap();
+        let help = check.render_long_help().to_string();
+        assert!(help.contains("Exit codes:"), "{help}");
+        assert!(
+            help.contains("Lowest severity that makes the run exit with 1"),
+            "{help}"
+        );
     }
 }

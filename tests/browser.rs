@@ -6,80 +6,17 @@
 
 mod common;
 
-use std::path::{Path, PathBuf};
-use std::process::{Command, Output, Stdio};
-use std::time::{Duration, Instant};
+use common::browser::{chromium_or_skip, console_errors};
+use std::path::Path;
+use std::time::Duration;
 
-fn find_chromium() -> Option<PathBuf> {
-    let path = std::env::var_os("PATH")?;
-    for dir in std::env::split_paths(&path) {
-        for name in ["chromium", "chromium-browser", "google-chrome"] {
-            let candidate = dir.join(name);
-            if candidate.is_file() {
-                return Some(candidate);
-            }
-        }
-    }
-    None
-}
-
-/// Runs Chromium headless with our flags, killed after 90 s.
-fn chromium(binary: &Path, profile: &Path, extra: &[String], url: &str) -> Output {
-    let mut child = Command::new(binary)
-        .args([
-            "--headless",
-            "--no-sandbox",
-            "--disable-gpu",
-            "--disable-background-networking",
-            "--disable-component-update",
-            "--disable-sync",
-            "--no-first-run",
-            "--enable-logging=stderr",
-            "--v=0",
-            "--window-size=1200,1000",
-        ])
-        .arg(format!("--user-data-dir={}", profile.display()))
-        .args(extra)
-        .arg(url)
-        .stdout(Stdio::piped())
-        .stderr(Stdio::piped())
-        .spawn()
-        .expect("chromium starts");
-    let start = Instant::now();
-    loop {
-        if child.try_wait().expect("chromium runs").is_some() {
-            break;
-        }
-        if start.elapsed() > Duration::from_secs(90) {
-            let _ = child.kill();
-            panic!("chromium did not finish within 90 s");
-        }
-        std::thread::sleep(Duration::from_millis(100));
-    }
-    child.wait_with_output().expect("chromium output")
-}
-
-/// Console messages Chromium logged as errors, and pages it could not load.
-fn console_errors(stderr: &str) -> Vec<&str> {
-    stderr
-        .lines()
-        .filter(|l| {
-            (l.contains("CONSOLE") && (l.contains("Uncaught") || l.contains("Error")))
-                || l.contains("Failed to load resource")
-        })
-        .collect()
+fn chromium(binary: &Path, profile: &Path, extra: &[String], url: &str) -> std::process::Output {
+    common::browser::run(binary, profile, extra, url, Duration::from_secs(90))
 }
 
 #[test]
 fn group_map_renders_in_headless_chromium() {
-    let Some(binary) = find_chromium() else {
-        if std::env::var("CI").is_ok_and(|v| v == "true") {
-            panic!("chromium is not installed: .ci/run must install it (apt-get install chromium)");
-        }
-        common::visible(
-            "\n*** skipped: group_map_renders_in_headless_chromium: Chromium not found on PATH \
-             (install it with `apt-get install chromium`); the browser check did NOT run ***\n",
-        );
+    let Some(binary) = chromium_or_skip("group_map_renders_in_headless_chromium") else {
         return;
     };
     let demo = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");

@@ -58,7 +58,12 @@ fn demo_report_lists_the_deliberate_problems() {
                 s("PLC1"),
                 Some(s("bloom"))
             ),
-            (Severity::Warning, s("internal-loop"), s("loop-1"), None),
+            (
+                Severity::Warning,
+                s("internal-loop"),
+                gibbsite::loops::ids::member_set_id("loop", ["PEPS", "PYK"]),
+                None
+            ),
             (
                 Severity::Warning,
                 s("scenario-internal-cycle"),
@@ -456,7 +461,12 @@ fn the_demo_loop_is_found_with_its_fix() {
     assert!(loops.energy_cycles.iter().all(|e| !e.cycle_exists));
     assert!(loops.energy_cycles.iter().any(|e| e.currency == "atp"));
     let pyk = report.reactions.iter().find(|r| r.id == "PYK").unwrap();
-    assert_eq!(pyk.loops, ["loop-1"]);
+    // The loop id comes from its member set (loops::ids), not discovery order.
+    assert_eq!(
+        pyk.loops,
+        [gibbsite::loops::ids::member_set_id("loop", ["PEPS", "PYK"])]
+    );
+    assert_eq!(pyk.loops[0], "loop-eec1c24eca");
     assert_eq!(pyk.loop_capable.as_deref(), Some("forward"));
 }
 

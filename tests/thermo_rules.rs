@@ -110,7 +110,8 @@ reactions:
     assert!(l.inconsistent);
     // The message compares the sum with the allowance and shows both:
     // k·σ = 1.959964 × 0.866 = 1.70 kJ/mol.
-    let f = finding(&report, "inconsistent-cycle-energy", "loop-1");
+    let id = gibbsite::loops::ids::member_set_id("loop", ["R1", "R2", "R3"]);
+    let f = finding(&report, "inconsistent-cycle-energy", &id);
     assert!(
         f.message.contains("−1.90 kJ/mol") && f.message.contains("allowance 1.70 kJ/mol"),
         "{}",
@@ -455,7 +456,11 @@ fn loop_message_shows_the_allowance_it_subtracted() {
         Project::load(&std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside"))
             .unwrap()
             .analyse();
-    let f = finding(&report, "internal-loop", "loop-1");
+    let f = finding(
+        &report,
+        "internal-loop",
+        &gibbsite::loops::ids::member_set_id("loop", ["PEPS", "PYK"]),
+    );
     for part in [
         "at least 6.30 kJ/mol",
         "3.90 kJ/mol after subtracting the uncertainty allowance 2.40 kJ/mol",

@@ -37,7 +37,8 @@ fn symport_gets_a_marked_verdict_and_chemistry_does_not() {
         .starts_with("transport, single-species approximation"));
     assert!(lact.forward_verdict.is_some());
     let json = gibbsite::report::json::to_json(&report);
-    assert!(json.contains("\"energy_origin\": \"transport-rule\""));
+    // Compact JSON (report::json): no space after the colon.
+    assert!(json.contains("\"energy_origin\":\"transport-rule\""));
     // Lactate dehydrogenase-like chemistry has no data: no rule applies.
     assert!(report.reactions[1].drg_prime.is_none());
 

@@ -17,8 +17,8 @@
 //! or a repeat unit such as `(C5H8O4)n`, or a charge is missing).
 
 use crate::chem::{parse_formula, Formula};
+use crate::finding::{Finding, Severity};
 use crate::model::{Model, Role};
-use crate::report::{Finding, Severity};
 use std::collections::BTreeMap;
 use std::fmt::Write;
 

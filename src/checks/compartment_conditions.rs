@@ -6,7 +6,7 @@
 
 use super::Check;
 use crate::analysis::Analysis;
-use crate::report::{Finding, Severity};
+use crate::finding::{Finding, Severity};
 
 pub const CHECK: Check = Check {
     slug: "compartment-conditions",

@@ -7,7 +7,7 @@
 
 use super::{evidence, kj, Check};
 use crate::analysis::Analysis;
-use crate::report::{Finding, Severity};
+use crate::finding::{Finding, Severity};
 
 pub const CHECK: Check = Check {
     slug: "loops",

@@ -1,14 +1,17 @@
-//! Checks: one file per check, each a pure function of the [`Analysis`].
+//! Checks: one file per check, each a pure function of the analysed data
+//! ([`Analysis`]) returning findings; they never run analysis steps
+//! themselves nor know about the report (`pipeline` calls [`run_all`]).
 //! Adding a check means one new file plus one line in [`REGISTRY`].
 
 use crate::analysis::Analysis;
-use crate::report::Finding;
+use crate::finding::Finding;
 
 pub mod balance;
 pub mod bounds_audit;
 pub mod compartment_conditions;
 pub mod copied_energy;
 pub mod energy_cycles;
+pub mod input_plausibility;
 pub mod internal_loops;
 pub mod missing_energy;
 pub mod scenario_directions;
@@ -28,6 +31,7 @@ pub struct Check {
 
 /// Every check, in the order the overview lists them.
 pub const REGISTRY: &[Check] = &[
+    input_plausibility::CHECK,
     balance::CHECK,
     validity::CHECK,
     copied_energy::CHECK,
@@ -39,6 +43,29 @@ pub const REGISTRY: &[Check] = &[
     internal_loops::CHECK,
     energy_cycles::CHECK,
 ];
+
+/// Run every registered check over the analysed data, soften what unset
+/// compartment conditions make uncertain, and sort the findings
+/// deterministically.
+/// Every kind a registered check may report, in registry order, each once.
+pub fn kinds() -> Vec<&'static str> {
+    let mut seen = std::collections::BTreeSet::new();
+    REGISTRY
+        .iter()
+        .flat_map(|c| c.kinds.iter().copied())
+        .filter(|k| seen.insert(*k))
+        .collect()
+}
+
+pub fn run_all(analysis: &Analysis) -> Vec<Finding> {
+    let mut findings: Vec<Finding> = REGISTRY
+        .iter()
+        .flat_map(|check| (check.run)(analysis))
+        .collect();
+    compartment_conditions::soften(analysis, &mut findings);
+    crate::finding::sort_findings(&mut findings);
+    findings
+}
 
 /// Shorthand for the evidence map of a finding.
 pub(crate) fn evidence(pairs: &[(&str, f64)]) -> std::collections::BTreeMap<String, f64> {

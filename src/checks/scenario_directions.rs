@@ -3,7 +3,7 @@
 
 use super::{copy_caveat, kj, range_evidence, Check};
 use crate::analysis::Analysis;
-use crate::report::{Finding, Severity, Verdict};
+use crate::finding::{Finding, Severity, Verdict};
 
 pub const CHECK: Check = Check {
     slug: "scenario",

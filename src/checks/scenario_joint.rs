@@ -5,7 +5,7 @@
 
 use super::{evidence, kj, Check};
 use crate::analysis::Analysis;
-use crate::report::{Finding, Severity, Verdict};
+use crate::finding::{Finding, Severity, Verdict};
 use crate::scenarios::{JointOutcome, ScenarioResult};
 
 pub const CHECK: Check = Check {

@@ -14,7 +14,7 @@
 
 use super::{evidence, Check};
 use crate::analysis::Analysis;
-use crate::report::{Finding, Severity};
+use crate::finding::{Finding, Severity};
 
 pub const CHECK: Check = Check {
     slug: "validity",

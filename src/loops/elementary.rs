@@ -36,7 +36,7 @@ pub struct LoopMember {
 /// An elementary internal loop.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ElementaryLoop {
-    /// `loop-1`, `loop-2`, … in the order found (deterministic).
+    /// `loop-<10 hex>` from the member reaction ids (see `loops::ids`).
     pub id: String,
     /// Sorted by reaction index.
     pub members: Vec<LoopMember>,
@@ -239,9 +239,17 @@ pub fn find_loops(
             }
             keys.insert(key);
             let mut cycle = cycle;
-            cycle.id = format!("loop-{}", result.loops.len() + 1);
+            cycle.id = super::ids::member_set_id(
+                "loop",
+                cycle.members.iter().map(|m| m.reaction.as_str()),
+            );
             result.loops.push(cycle);
         }
+    }
+    let mut ids: Vec<String> = result.loops.iter().map(|l| l.id.clone()).collect();
+    super::ids::disambiguate(&mut ids);
+    for (cycle, id) in result.loops.iter_mut().zip(ids) {
+        cycle.id = id;
     }
     result.uncovered = members.into_iter().filter(|&r| !covered[r]).collect();
     Ok(result)

@@ -14,6 +14,7 @@ mod currency;
 mod egc;
 mod elementary;
 mod energy;
+pub mod ids;
 mod network;
 mod nullspace;
 mod prune;

@@ -94,7 +94,21 @@ pub fn validate(
         };
         let mut ok = true;
         let mut bad = |key: &str, message: String| {
-            diagnostics.push(Diagnostic::new(file, message).at_opt(at(Some(key))));
+            let raw = match key {
+                "ionic_strength" => r.ionic_strength.as_ref(),
+                "temperature" => r.temperature.as_ref(),
+                _ => None,
+            };
+            let slip = raw.and_then(|q| {
+                let quantity = match key {
+                    "ionic_strength" => super::plausibility::Quantity::IonicStrength,
+                    _ => super::plausibility::Quantity::Temperature,
+                };
+                super::plausibility::unit_slip(quantity, q)
+            });
+            let mut d = Diagnostic::new(file, message).at_opt(at(Some(key)));
+            d.hint = slip;
+            diagnostics.push(d);
             ok = false;
         };
         if let Some(ph) = c.ph {

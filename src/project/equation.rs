@@ -122,8 +122,14 @@ fn parse_side(tokens: &[Token<'_>], sign: f64) -> Result<Vec<Term>, EquationErro
     while i < tokens.len() {
         if !terms.is_empty() {
             if tokens[i].text != "+" {
+                // `+h_c` or `a_c+ b_c`: a `+` glued to an id.
+                let glued = tokens[i].text.starts_with('+') || tokens[i - 1].text.ends_with('+');
+                let advice = if glued { "; put spaces around '+'" } else { "" };
                 return Err(EquationError {
-                    message: format!("expected `+` between terms, found `{}`", tokens[i].text),
+                    message: format!(
+                        "expected `+` between terms, found `{}`{advice}",
+                        tokens[i].text
+                    ),
                     offset: tokens[i].offset,
                 });
             }
@@ -252,5 +258,22 @@ mod tests {
         assert!(e.message.contains("no metabolites"));
         let e = parse("2 -> c").unwrap_err();
         assert!(e.message.contains("not followed"), "{}", e.message);
+    }
+
+    #[test]
+    fn a_plus_glued_to_an_id_asks_for_spaces() {
+        let e = parse("atp_c + h2o_c -> adp_c +h_c").unwrap_err();
+        assert_eq!(
+            e.message,
+            "expected `+` between terms, found `+h_c`; put spaces around '+'"
+        );
+        assert_eq!(e.offset, 23);
+        let e = parse("a_c+ b_c -> c_c").unwrap_err();
+        assert_eq!(
+            e.message,
+            "expected `+` between terms, found `b_c`; put spaces around '+'"
+        );
+        let e = parse("a_c b_c -> c_c").unwrap_err();
+        assert_eq!(e.message, "expected `+` between terms, found `b_c`");
     }
 }

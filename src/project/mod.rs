@@ -8,7 +8,9 @@
 pub mod conditions;
 pub mod equation;
 pub mod limits;
+pub mod locations;
 pub mod model_file;
+pub mod plausibility;
 pub mod read;
 pub mod sbml;
 pub mod schema;
@@ -65,6 +67,9 @@ pub struct Settings {
     /// Metabolite ids the maps always draw as side labels / as nodes.
     pub map_side: Vec<String>,
     pub map_main: Vec<String>,
+    /// Values that loaded but are implausible or look like unit slips,
+    /// with their file and line (reported by `checks::input_plausibility`).
+    pub input_remarks: Vec<plausibility::Remark>,
 }
 
 /// A Markdown note shown in the report.
@@ -92,6 +97,8 @@ pub struct Project {
     pub notes: Vec<Note>,
     /// Side tables applied so far (their claims and warnings).
     pub tables: tables::TableSession,
+    /// Where each model element is written (for SARIF regions).
+    pub source_lines: locations::SourceLines,
 }
 
 impl Project {
@@ -127,19 +134,27 @@ impl Project {
         if name == SETTINGS_FILE {
             return load_settings_file(path);
         }
-        if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
-            let model = sbml::read_sbml(path)?;
-            return Ok(Project::with_defaults(path, model));
-        }
         if !path.exists() {
-            return Err(Error::input(Diagnostic::new(
+            // The same words whatever kind of file was meant.
+            return Err(Error::input(missing(
+                Diagnostic::new(path, "no such file or folder"),
                 path,
-                "no such file or folder; expected a project folder, gibbsite.yaml, a model .yaml or an SBML file",
+                "expected a project folder, gibbsite.yaml, a model .yaml or an SBML file (.xml, .xml.gz)",
             )));
         }
-        let (model, stated) = load_model_files_stated(&[path.to_path_buf()], &[])?;
+        if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
+            let (model, lines) = sbml::read_sbml_located(path)?;
+            let mut project = Project::with_defaults(path, model);
+            project.source_lines = lines;
+            return Ok(project);
+        }
+        let folder = path.parent().unwrap_or(Path::new("."));
+        let (model, stated, remarks, lines) =
+            load_model_files_stated(&[path.to_path_buf()], &[], folder)?;
         let mut project = Project::with_defaults(path, model);
+        project.source_lines = lines;
         project.settings.unset_conditions = unset_compartments(&project.model, &stated);
+        project.settings.input_remarks = remarks;
         Ok(project)
     }
 
@@ -166,10 +181,12 @@ impl Project {
                 table_reactions: Default::default(),
                 map_side: Vec::new(),
                 map_main: Vec::new(),
+                input_remarks: Vec::new(),
             },
             model,
             notes: Vec::new(),
             tables: Default::default(),
+            source_lines: Default::default(),
         }
     }
 
@@ -178,14 +195,19 @@ impl Project {
     pub fn add_tables(&mut self, paths: &[PathBuf]) -> Result<()> {
         let mut diagnostics = Vec::new();
         for path in paths {
-            if !path.is_file() {
-                diagnostics.push(Diagnostic::new(path, "table not found"));
+            if !path.exists() {
+                diagnostics.push(missing(
+                    Diagnostic::new(path, "table not found"),
+                    path,
+                    "expected a CSV or TSV side table",
+                ));
                 continue;
             }
             if let Err(ds) = tables::apply_side_table(path, &mut self.model, &mut self.tables) {
                 diagnostics.extend(ds);
             }
         }
+        self.settings.input_remarks.append(&mut self.tables.remarks);
         self.settings.table_metabolites = self.tables.metabolites_with_energy.clone();
         self.settings.table_reactions = self.tables.reactions_with_energy.clone();
         if diagnostics.is_empty() {
@@ -202,6 +224,15 @@ impl Project {
             .iter()
             .map(|d| d.to_string().replacen(": error: ", ": warning: ", 1))
             .collect()
+    }
+}
+
+/// A missing file's diagnostic with its hint: the nearest existing name in
+/// its folder, else what was expected there.
+fn missing(diagnostic: Diagnostic, path: &Path, expected: &str) -> Diagnostic {
+    match read::similar_file(path) {
+        Some(name) => diagnostic.hint(format!("did you mean `{name}`?")),
+        None => diagnostic.hint(expected),
     }
 }
 
@@ -332,13 +363,15 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         };
         match read::check_confined(file) {
             Ok(_) if file.is_file() => {}
-            Ok(_) | Err(_) if !file.exists() => diagnostics.push(
+            Ok(_) | Err(_) if !file.exists() => diagnostics.push(missing(
                 Diagnostic::new(
                     settings_path,
                     format!("model file `{}` not found", file.display()),
                 )
                 .at_opt(at(&p)),
-            ),
+                file,
+                "`model` names model .yaml or SBML files (.xml, .xml.gz), relative to the project folder",
+            )),
             Ok(_) => diagnostics.push(
                 Diagnostic::new(
                     settings_path,
@@ -367,7 +400,20 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
         .enumerate()
         .map(|(i, s)| (settings_path.to_path_buf(), &map, s.clone(), i))
         .collect();
-    let (mut model, mut stated) = load_model_files_stated(&model_files, &extra)?;
+    let (mut model, mut stated, mut input_remarks, mut source_lines) =
+        load_model_files_stated(&model_files, &extra, &root)?;
+    input_remarks.extend(plausibility::scan_settings(
+        &shown_relative(settings_path, &root),
+        &raw,
+        &map,
+    ));
+    // Scenarios defined in gibbsite.yaml are located there.
+    let scenario_ids = raw.scenarios.iter().map(|s| s.id.clone()).collect();
+    source_lines.add_yaml(
+        settings_path,
+        text.clone(),
+        vec![vec![], vec![], vec![], scenario_ids],
+    );
     let given = conditions::validate(
         settings_path,
         &map,
@@ -392,6 +438,10 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
     let unset_conditions = unset_compartments(&model, &stated);
     let mut session = tables::TableSession::default();
     apply_side_tables(&mut model, &raw, &root, settings_path, &map, &mut session)?;
+    input_remarks.extend(session.remarks.drain(..).map(|mut r| {
+        r.file = shown_relative(Path::new(&r.file), &root);
+        r
+    }));
     apply_role_overrides(&mut model, &raw, settings_path, &map)?;
     check_currency_ids(&model, &raw, settings_path, &map)?;
     let notes = match &notes_dir {
@@ -423,10 +473,12 @@ fn load_settings_file(settings_path: &Path) -> Result<Project> {
             table_reactions: session.reactions_with_energy.clone(),
             map_side: raw.maps.as_ref().map_or(Vec::new(), |m| m.side.clone()),
             map_main: raw.maps.as_ref().map_or(Vec::new(), |m| m.main.clone()),
+            input_remarks,
         },
         model,
         notes,
         tables: session,
+        source_lines,
     })
 }
 
@@ -459,13 +511,15 @@ fn apply_side_tables(
             } else {
                 vec![Segment::Key("tables".into()), Segment::Index(i)]
             };
-            diagnostics.push(
+            diagnostics.push(missing(
                 Diagnostic::new(
                     settings_path,
                     format!("table `{}` not found", path.display()),
                 )
                 .at_opt(map.nearest(&p).map(|l| l.pair())),
-            );
+                &path,
+                "`tables` names CSV or TSV files, relative to the project folder",
+            ));
             continue;
         }
         if let Err(ds) = tables::apply_side_table(&path, model, session) {
@@ -570,23 +624,43 @@ pub fn load_model_files(
     files: &[PathBuf],
     extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
 ) -> Result<Model> {
-    load_model_files_stated(files, extra_scenarios).map(|(model, _)| model)
+    let folder = Path::new(".");
+    load_model_files_stated(files, extra_scenarios, folder).map(|(model, ..)| model)
+}
+
+/// A file as shown in warnings: relative to the project folder when inside it.
+fn shown_relative(file: &Path, folder: &Path) -> String {
+    file.strip_prefix(folder)
+        .unwrap_or(file)
+        .display()
+        .to_string()
 }
 
 /// As [`load_model_files`], with the ids of compartments whose model file
-/// states a pH or a potential (none for SBML, which has no such data).
+/// states a pH or a potential (none for SBML, which has no such data), and
+/// the implausible values of the files (shown relative to `folder`).
+type LoadedModel = (
+    Model,
+    std::collections::BTreeSet<String>,
+    Vec<plausibility::Remark>,
+    locations::SourceLines,
+);
+
 fn load_model_files_stated(
     files: &[PathBuf],
     extra_scenarios: &[(PathBuf, &sourcemap::SourceMap, schema::RawScenario, usize)],
-) -> Result<(Model, std::collections::BTreeSet<String>)> {
+    folder: &Path,
+) -> Result<LoadedModel> {
     if let [single] = files {
         let name = single.to_string_lossy().to_lowercase();
         if name.ends_with(".xml") || name.ends_with(".xml.gz") || name.ends_with(".sbml") {
-            return Ok((sbml::read_sbml(single)?, Default::default()));
+            let (model, lines) = sbml::read_sbml_located(single)?;
+            return Ok((model, Default::default(), Vec::new(), lines));
         }
     }
     let mut diagnostics = Vec::new();
     let mut sources = Vec::new();
+    let mut texts = Vec::new();
     for file in files {
         let text = match read_text(file) {
             Ok(t) => t,
@@ -603,6 +677,7 @@ fn load_model_files_stated(
                 raw: parsed.value,
                 map: parsed.map,
             });
+            texts.push(text);
         }
     }
     let model = if sources.len() == files.len() {
@@ -616,8 +691,27 @@ fn load_model_files_stated(
         .filter(|c| c.ph.is_some() || c.potential.is_some())
         .map(|c| c.id.clone())
         .collect();
+    let remarks = sources
+        .iter()
+        .flat_map(|s| plausibility::scan_model(&shown_relative(&s.file, folder), &s.raw, &s.map))
+        .collect();
+    let mut lines = locations::SourceLines::default();
+    for (source, text) in sources.iter().zip(texts) {
+        let raw = &source.raw;
+        let ids = |items: Vec<&String>| items.into_iter().cloned().collect::<Vec<_>>();
+        lines.add_yaml(
+            &source.file,
+            text,
+            vec![
+                ids(raw.reactions.iter().map(|r| &r.id).collect()),
+                ids(raw.metabolites.iter().map(|m| &m.id).collect()),
+                ids(raw.compartments.iter().map(|c| &c.id).collect()),
+                ids(raw.scenarios.iter().map(|s| &s.id).collect()),
+            ],
+        );
+    }
     match model {
-        Some(m) if diagnostics.is_empty() => Ok((m, stated)),
+        Some(m) if diagnostics.is_empty() => Ok((m, stated, remarks, lines)),
         _ => {
             diagnostics.sort();
             diagnostics.dedup();

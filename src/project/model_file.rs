@@ -4,6 +4,7 @@
 //! concerned, so a user fixes a file in one pass.
 
 use super::equation::{self, Arrow};
+use super::plausibility::{unit_slip, Quantity};
 use super::schema::{did_you_mean, RawEnergy, RawModelFile, RawRange, RawScenario};
 use super::sourcemap::{Segment, SourceMap};
 use super::units::{self, Kind, RawQuantity};
@@ -164,8 +165,9 @@ impl Reporter<'_, '_> {
         })
     }
 
-    /// A concentration range: both positive, min ≤ max.
-    fn range(&mut self, raw: &RawRange, segments: &[Segment]) -> Option<Range> {
+    /// A concentration range: both positive, min ≤ max. `owner` names
+    /// whose range it is in messages ("metabolite `atp_c`").
+    fn range(&mut self, raw: &RawRange, segments: &[Segment], owner: &str) -> Option<Range> {
         let mut min_path = segments.to_vec();
         min_path.push(Segment::Key("min".into()));
         let mut max_path = segments.to_vec();
@@ -189,9 +191,18 @@ impl Reporter<'_, '_> {
             ok = false;
         }
         if ok && min > max {
+            // Echo the values as written: a slip in a unit shows itself.
+            let written = |q: &RawQuantity| match q {
+                RawQuantity::Number(n) => n.to_string(),
+                RawQuantity::Text(t) => t.trim().to_string(),
+            };
             self.at(
                 &min_path,
-                format!("min ({min} M) is greater than max ({max} M)"),
+                format!(
+                    "min `{}` is greater than max `{}` in the concentration range of {owner}",
+                    written(&raw.min),
+                    written(&raw.max)
+                ),
             );
             ok = false;
         }
@@ -207,7 +218,7 @@ pub fn validate_range(
     segments: &[Segment],
     out: &mut Vec<Diagnostic>,
 ) -> Option<Range> {
-    Reporter { file, map, out }.range(raw, segments)
+    Reporter { file, map, out }.range(raw, segments, "`default_concentration`")
 }
 
 /// Build the model from one or more files sharing one id namespace.
@@ -240,12 +251,13 @@ pub fn build(
             map: &first.map,
             out: diagnostics,
         };
-        if let Some(t) = r.quantity(t, Kind::Temperature, &path(&[K("temperature")])) {
-            match super::limits::temperature(t) {
+        if let Some(value) = r.quantity(t, Kind::Temperature, &path(&[K("temperature")])) {
+            match super::limits::temperature(value) {
                 Err(message) => {
-                    r.at(&path(&[K("temperature")]), message);
+                    r.at(&path(&[K("temperature")]), message).hint =
+                        unit_slip(Quantity::Temperature, t);
                 }
-                Ok(()) => model.temperature_k = t,
+                Ok(()) => model.temperature_k = value,
             }
         }
     }
@@ -487,7 +499,10 @@ fn compartment(
     };
     if let Some(i) = ionic {
         if let Err(message) = super::limits::ionic_strength(i) {
-            r.at(&sub("ionic_strength"), message);
+            r.at(&sub("ionic_strength"), message).hint = raw
+                .ionic_strength
+                .as_ref()
+                .and_then(|q| unit_slip(Quantity::IonicStrength, q));
             ok = false;
         }
     }
@@ -503,7 +518,7 @@ fn compartment(
         Some(q) => match r.quantity(q, Kind::Temperature, &sub("temperature")) {
             Some(t) if super::limits::temperature(t).is_err() => {
                 let message = super::limits::temperature(t).unwrap_err();
-                r.at(&sub("temperature"), message);
+                r.at(&sub("temperature"), message).hint = unit_slip(Quantity::Temperature, q);
                 None
             }
             Some(t) => Some(Some(t)),
@@ -571,7 +586,11 @@ fn metabolite(
         ok = false;
     }
     let concentration = match &raw.concentration {
-        Some(c) => match r.range(c, &sub("concentration")) {
+        Some(c) => match r.range(
+            c,
+            &sub("concentration"),
+            &format!("metabolite `{}`", raw.id),
+        ) {
             Some(range) => Some(range),
             None => {
                 ok = false;
@@ -772,6 +791,16 @@ fn reaction(
                             did_you_mean(&term.id, metabolites.iter().map(|m| m.id.as_str()))
                         {
                             d = d.hint(format!("did you mean `{best}`?"));
+                        } else if term.id.len() > 1 && term.id.contains('+') {
+                            // `a_c+b_c`: terms need ` + ` between them.
+                            d = d.hint(format!(
+                                "put spaces around '+': `{}`",
+                                term.id
+                                    .split('+')
+                                    .filter(|t| !t.is_empty())
+                                    .collect::<Vec<_>>()
+                                    .join(" + ")
+                            ));
                         }
                         r.out.push(d);
                         ok = false;
@@ -966,12 +995,13 @@ fn scenario(
                     p.push(Segment::Key("file".into()));
                     if let Some(l) = r.map.value(&p) {
                         for d in &mut ds {
-                            d.hint = Some(format!(
-                                "named at {}:{}:{}",
-                                r.file.display(),
-                                l.line,
-                                l.column
-                            ));
+                            let named =
+                                format!("named at {}:{}:{}", r.file.display(), l.line, l.column);
+                            // Keep a "did you mean" the reader found.
+                            d.hint = Some(match d.hint.take() {
+                                Some(h) => format!("{h} ({named})"),
+                                None => named,
+                            });
                         }
                     }
                 }

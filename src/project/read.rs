@@ -116,7 +116,7 @@ pub fn check_confined(path: &Path) -> Result<PathBuf, Diagnostic> {
         Some(c) => c.resolve(path).map_err(|why| {
             let d = Diagnostic::new(path, why.clone());
             if why == "not found" {
-                Diagnostic::new(path, "file not found")
+                not_found(path)
             } else {
                 d.hint(Confinement::hint())
             }
@@ -167,9 +167,42 @@ pub fn read_text(path: &Path) -> Result<String, Diagnostic> {
     decode_utf8(read_bytes(path)?, path)
 }
 
+/// "file not found", with the nearest existing file name as a hint.
+fn not_found(path: &Path) -> Diagnostic {
+    let d = Diagnostic::new(path, "file not found");
+    match similar_file(path) {
+        Some(name) => d.hint(format!("did you mean `{name}`?")),
+        None => d,
+    }
+}
+
+/// The name of an existing entry of `path`'s folder nearest to its file
+/// name (a typo in a file name), when one is close. Only a folder the
+/// active confinement allows is listed, so no name from outside the
+/// project reaches a message.
+pub fn similar_file(path: &Path) -> Option<String> {
+    /// Entries looked at, so a huge folder stays cheap.
+    const MAX_ENTRIES: usize = 10_000;
+    let name = path.file_name()?.to_str()?;
+    let folder = match path.parent() {
+        Some(p) if !p.as_os_str().is_empty() => p,
+        _ => Path::new("."),
+    };
+    let folder = check_confined(folder).ok()?;
+    let names: Vec<String> = std::fs::read_dir(folder)
+        .ok()?
+        .take(MAX_ENTRIES)
+        .filter_map(|e| e.ok()?.file_name().into_string().ok())
+        .filter(|n| !n.starts_with('.'))
+        .collect();
+    super::schema::did_you_mean(name, names.iter().map(String::as_str)).map(str::to_string)
+}
+
 fn open_error(path: &Path, e: &std::io::Error) -> Diagnostic {
+    if e.kind() == std::io::ErrorKind::NotFound {
+        return not_found(path);
+    }
     let message = match e.kind() {
-        std::io::ErrorKind::NotFound => "file not found".to_string(),
         std::io::ErrorKind::PermissionDenied => "permission denied".to_string(),
         _ => format!("cannot read file: {e}"),
     };

@@ -225,6 +225,9 @@ pub struct TableSession {
     by_id: std::collections::HashSet<(bool, usize)>,
     /// Problems that do not stop the run (e.g. a row matching nothing).
     pub warnings: Vec<Diagnostic>,
+    /// Cells that loaded but are implausible or look like unit slips
+    /// (moved into the project's settings after each table).
+    pub remarks: Vec<super::plausibility::Remark>,
     /// Metabolites / reactions that got an energy from a table.
     pub metabolites_with_energy: std::collections::BTreeSet<usize>,
     pub reactions_with_energy: std::collections::BTreeSet<usize>,
@@ -302,6 +305,7 @@ pub fn apply_side_table_bytes(
         METABOLITE_COLUMNS
     };
     let mut problems = Vec::new();
+    let mut remarks = Vec::new();
     if !matches!(
         headers.first().map(String::as_str),
         Some("metabolite" | "reaction")
@@ -473,6 +477,15 @@ pub fn apply_side_table_bytes(
             let min = number("min", Kind::Concentration);
             let max = number("max", Kind::Concentration);
             let measured = number("measured", Kind::Concentration);
+            for &(name, quantity) in super::plausibility::TABLE_COLUMNS {
+                let field = column(name).map_or(1, |c| c + 1);
+                if let Some(remark) = cell(name).and_then(|text| {
+                    let shown = path.display().to_string();
+                    super::plausibility::judge_cell(&shown, (line, field), id, name, quantity, text)
+                }) {
+                    remarks.push(remark);
+                }
+            }
             let int = |name: &str, problems: &mut Vec<Diagnostic>| -> Option<i64> {
                 let text = cell(name)?;
                 match text.parse::<i64>() {
@@ -521,9 +534,18 @@ pub fn apply_side_table_bytes(
                 (Some(a), Some(b)) if a > 0.0 && b > 0.0 && a <= b => Some((a, b)),
                 (None, None) => None,
                 (Some(a), Some(b)) if a > b => {
+                    // Echo the cells as written (a unit slip shows itself).
+                    let written = |name: &str| cell(name).unwrap_or("").trim().to_string();
                     row_problems.push(
-                        Diagnostic::new(path, format!("min ({a} M) is greater than max ({b} M)"))
-                            .at(line, 1),
+                        Diagnostic::new(
+                            path,
+                            format!(
+                                "min `{}` is greater than max `{}` for `{id}`",
+                                written("min"),
+                                written("max")
+                            ),
+                        )
+                        .at(line, column("min").map_or(1, |c| c + 1)),
                     );
                     None
                 }
@@ -632,6 +654,7 @@ pub fn apply_side_table_bytes(
     if !problems.is_empty() {
         return Err(problems);
     }
+    session.remarks.extend(remarks);
     for (key, claim) in claims {
         session.claims.entry(key).or_insert(claim);
     }

@@ -16,12 +16,33 @@ pub fn load(path: &Path) -> Result<Report> {
             format!("cannot read baseline: {}", d.message),
         ))
     })?;
-    serde_json::from_str(&text).map_err(|e| {
+    super::json::from_json(&text).map_err(|e| {
         Error::input(
             Diagnostic::new(path, format!("not a gibbsite report.json: {e}"))
                 .at(e.line(), e.column()),
         )
     })
+}
+
+/// A baseline must be a report of the same model (same model id): findings
+/// of another model would all look new or fixed. `any_model` (the CLI's
+/// `--baseline-any-model`) allows it on purpose, e.g. after a renaming.
+pub fn check_model(report: &Report, baseline: &Report, path: &Path, any_model: bool) -> Result<()> {
+    if any_model || baseline.project.model_id == report.project.model_id {
+        return Ok(());
+    }
+    Err(Error::input(
+        Diagnostic::new(
+            path,
+            format!(
+                "the baseline is a report of model `{}`, but this run checks model `{}`",
+                baseline.project.model_id, report.project.model_id
+            ),
+        )
+        .hint(
+            "use a report.json of the same model, or pass --baseline-any-model to compare anyway",
+        ),
+    ))
 }
 
 /// Findings of `report` that the baseline does not have.

@@ -4,7 +4,7 @@
 use super::*;
 use crate::analysis::Analysis;
 use crate::model::{Model, Special};
-use crate::project::Project;
+use crate::project::Note;
 use crate::slug::unique_slugs;
 
 /// The standing caution printed on every report.
@@ -12,22 +12,20 @@ pub const CAUTION: &str = "ΔG values here are estimates and carry uncertainty (
 A flagged contradiction or marginal step is a prompt for expert review against measurements and the literature, \
 not a verdict on the biology.";
 
-/// Deterministic order: severity, kind, first subject, scenario, message.
-pub fn sort_findings(findings: &mut [Finding]) {
-    findings.sort_by(|a, b| {
-        (a.severity, &a.kind, &a.subjects, &a.scenario, &a.message).cmp(&(
-            b.severity,
-            &b.kind,
-            &b.subjects,
-            &b.scenario,
-            &b.message,
-        ))
-    });
-}
+pub use crate::finding::sort_findings;
 
-pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> Report {
-    let model = &project.model;
-    let settings = &project.settings;
+/// The report from the analysed data, the findings of the checks, the
+/// catalogue of checks that ran (their `findings` counts are filled in here)
+/// and the project's notes. It reads results only: nothing here runs an
+/// analysis or a check (`pipeline` does, before).
+pub fn build(
+    analysis: &Analysis,
+    findings: Vec<Finding>,
+    checks: Vec<CheckInfo>,
+    notes: &[Note],
+) -> Report {
+    let model = analysis.model;
+    let settings = analysis.settings;
     let mut by_kind: BTreeMap<String, usize> = BTreeMap::new();
     for f in &findings {
         *by_kind.entry(f.kind.clone()).or_default() += 1;
@@ -55,17 +53,14 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
             .filter(|m| m.energy.is_some())
             .count(),
         by_kind,
-        checks: crate::checks::REGISTRY
-            .iter()
+        checks: checks
+            .into_iter()
             .map(|c| CheckInfo {
-                slug: c.slug.to_string(),
-                title: c.title.to_string(),
-                description: c.description.to_string(),
-                kinds: c.kinds.iter().map(|k| k.to_string()).collect(),
                 findings: findings
                     .iter()
-                    .filter(|f| c.kinds.contains(&f.kind.as_str()))
+                    .filter(|f| c.kinds.contains(&f.kind))
                     .count(),
+                ..c
             })
             .collect(),
     };
@@ -106,15 +101,14 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
                 potential_mv: x.potential_mv,
                 temperature_k: model.compartment_temperature(c),
                 pmg: x.pmg,
-                conditions_stated: !project.settings.unset_conditions.contains(&c),
-                conditions_source: project.settings.condition_sources.get(&c).cloned(),
+                conditions_stated: !settings.unset_conditions.contains(&c),
+                conditions_source: settings.condition_sources.get(&c).cloned(),
             })
             .collect(),
         metabolites: metabolite_views(model, analysis),
         reactions: reaction_views(model, analysis),
         scenarios: scenario_views(model, analysis),
-        notes: project
-            .notes
+        notes: notes
             .iter()
             .map(|n| NoteView {
                 slug: n.slug.clone(),
@@ -584,6 +578,7 @@ fn loops_view(model: &Model, analysis: &Analysis) -> Option<LoopsView> {
                             .join(" + ")
                     };
                     EnergyCycleView {
+                        id: r.cycle_exists.then(|| energy_cycle_id(r)),
                         currency: r.test.currency.clone(),
                         compartment: r.test.compartment.clone(),
                         equation: format!("{} -> {}", side(true), side(false)),
@@ -676,6 +671,7 @@ fn species_view(s: &crate::thermo::metabolite::SpeciesSummary) -> SpeciesView {
         pmg: s.conditions.pmg,
         mean_hydrogens: s.state.mean_hydrogens,
         mean_charge: s.state.mean_charge,
+        reactant_dfg_prime_kj: Some(s.state.dfg_prime_kj).filter(|g| g.is_finite()),
         curve: crate::thermo::metabolite::distribution_curve(s, CURVE_PH.0, CURVE_PH.1, CURVE_PH.2)
             .into_iter()
             .map(|(ph, fractions)| CurvePoint { ph, fractions })
@@ -700,4 +696,14 @@ pub fn energy_cycle_slug(currency: &str, compartment: &str) -> String {
         "cycle-{currency}-{}",
         compartment.replace("->", "-to-")
     ))
+}
+
+/// The id of an energy-generating cycle from its members: the dissipation
+/// tested and the example's reactions (order-free, see `loops::ids`).
+fn energy_cycle_id(r: &crate::loops::EnergyCycleResult) -> String {
+    let dissipation = format!("{} in {}", r.test.currency, r.test.compartment);
+    crate::loops::ids::member_set_id(
+        "cycle",
+        std::iter::once(dissipation.as_str()).chain(r.example.iter().map(|m| m.reaction.as_str())),
+    )
 }

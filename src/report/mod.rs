@@ -9,77 +9,20 @@ pub mod baseline;
 pub mod build;
 pub mod coverage;
 pub mod json;
+pub mod kinds;
 pub mod sarif;
 pub mod scenario_build;
 pub mod scenario_view;
 pub mod summary;
 pub mod text;
 
+pub use crate::finding::{Finding, Severity, Verdict};
 pub use scenario_view::*;
 
 /// Version of the `report.json` shape; bump on breaking changes.
-pub const REPORT_SCHEMA_VERSION: u32 = 1;
-
-#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, Deserialize)]
-#[serde(rename_all = "lowercase")]
-pub enum Severity {
-    Error,
-    Warning,
-    Note,
-}
-
-impl Severity {
-    pub fn slug(self) -> &'static str {
-        match self {
-            Severity::Error => "error",
-            Severity::Warning => "warning",
-            Severity::Note => "note",
-        }
-    }
-}
-
-/// One problem found by a check.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
-pub struct Finding {
-    /// Descriptive slug of the check kind, e.g. `direction-contradiction`.
-    pub kind: String,
-    pub severity: Severity,
-    /// Ids of the reactions / metabolites / loops concerned (first = main).
-    pub subjects: Vec<String>,
-    /// Scenario id when the finding belongs to one flux scenario.
-    pub scenario: Option<String>,
-    pub message: String,
-    /// Named numbers backing the message (kJ/mol unless the name says else).
-    pub evidence: BTreeMap<String, f64>,
-}
-
-/// Verdict on whether a flux direction is thermodynamically possible.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum Verdict {
-    /// Impossible for every allowed concentration even after the uncertainty allowance.
-    Contradiction,
-    /// Possible only near the concentration bounds or within the uncertainty.
-    Marginal,
-    /// The best achievable ΔG' in that direction is 0 within the allowance:
-    /// no driving force can be shown (its own verdict, never "consistent").
-    AtEquilibrium,
-    Consistent,
-    /// No ΔG'° available.
-    NoData,
-}
-
-impl Verdict {
-    pub fn slug(self) -> &'static str {
-        match self {
-            Verdict::Contradiction => "contradiction",
-            Verdict::Marginal => "marginal",
-            Verdict::AtEquilibrium => "at-equilibrium",
-            Verdict::Consistent => "consistent",
-            Verdict::NoData => "no-data",
-        }
-    }
-}
+/// Version 2: `report.json` is compact and leaves out what it repeats
+/// (see `json`).
+pub const REPORT_SCHEMA_VERSION: u32 = 2;
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Report {
@@ -143,14 +86,21 @@ pub struct GroupCoverageView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct MissingMetaboliteView {
     pub metabolite: String,
+    /// `slug` (`slug::slug` of the id), `name`, `compartment`, `formula` and
+    /// `xrefs`: the metabolite's own (left out of report.json).
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub slug: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub name: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub compartment: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub formula: Option<String>,
     /// Internal reactions lacking ΔrG'° that need this ΔfG'°.
     pub blocks: usize,
     /// Of those, the ones where it is the only missing ΔfG'°.
     pub only_gap: usize,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub xrefs: BTreeMap<String, Vec<String>>,
 }
 
@@ -203,7 +153,8 @@ pub struct CapableView {
 /// One elementary loop.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct LoopView {
-    /// `loop-1`, `loop-2`, … (its page is `loops/<id>.html`).
+    /// `loop-<10 hex>` from its member reactions (`loops::ids`; its page
+    /// is `loops/<id>.html`).
     pub id: String,
     pub members: Vec<LoopMemberView>,
     /// Metabolites its reactions touch (ids), for the cycle map.
@@ -226,14 +177,20 @@ pub struct LoopView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct LoopMemberView {
     pub reaction: String,
+    /// `slug`, `name`, `equation` and `participants`: the reaction's own
+    /// (left out of report.json, see `json`).
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub slug: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub name: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub equation: String,
     /// Relative flux around the loop: negative = runs backward.
     pub coefficient: f64,
     pub drg0_kj: Option<f64>,
     pub sigma_kj: Option<f64>,
     /// (metabolite id, slug, coefficient in the reaction) for the cycle map.
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub participants: Vec<ParticipantView>,
 }
 
@@ -256,6 +213,11 @@ pub struct ConstraintView {
 /// One energy-generating-cycle test.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct EnergyCycleView {
+    /// `cycle-<10 hex>` from its member set (the tested dissipation, as
+    /// `<currency> in <compartment>`, and the example's reactions; see
+    /// `loops::ids`); `None` when no cycle exists.
+    #[serde(default)]
+    pub id: Option<String>,
     pub currency: String,
     pub compartment: String,
     /// The dissipation reaction tested, e.g. `atp_c + h2o_c -> adp_c + pi_c + h_c`.
@@ -413,6 +375,10 @@ pub struct SpeciesView {
     pub pmg: Option<f64>,
     pub mean_hydrogens: f64,
     pub mean_charge: f64,
+    /// ΔfG'° of the reactant made of the species counted here (the sum over
+    /// species, Alberty 2003), kJ/mol; `None` when no species was counted.
+    #[serde(default)]
+    pub reactant_dfg_prime_kj: Option<f64>,
     /// Species mole fractions over pH 4–10: (pH, fraction of each entry).
     pub curve: Vec<CurvePoint>,
     /// Where each value comes from.
@@ -464,7 +430,10 @@ pub struct TransportView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ParticipantView {
     pub metabolite: String,
+    /// `slug` and `name`: the metabolite's own (left out of report.json).
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub slug: String,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub name: String,
     /// Signed coefficient (negative = consumed).
     pub coefficient: f64,

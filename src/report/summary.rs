@@ -6,39 +6,93 @@
 //! like `![t](https://host/x.png)` never becomes an image that loads when
 //! the comment is opened.
 
-use super::{Report, Severity};
+use super::kinds;
+use super::text::groups;
+use super::Report;
+use crate::outcome::Outcome;
 use std::fmt::Write;
 
-/// Counts, the error and warning findings (at most `limit`), and the caution.
-pub fn to_markdown(report: &Report, limit: usize) -> String {
+/// Example rows shown per kind; the rest are in the report.
+pub const EXAMPLES_PER_KIND: usize = 10;
+
+/// One root cause for the summary: what explains a number of findings.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RootCauseLine {
+    /// Our sentence (model ids in `backticks` become code spans).
+    pub cause: String,
+    pub findings: usize,
+}
+
+/// The pass/fail line, coverage, counts by kind, root causes (when given),
+/// at most [`EXAMPLES_PER_KIND`] example rows per kind, and the caution.
+pub fn to_markdown(report: &Report, outcome: &Outcome, root_causes: &[RootCauseLine]) -> String {
     let s = &report.summary;
     let mut out = String::new();
     let _ = writeln!(out, "## gibbsite: {}\n", text(&report.project.title));
+    let line = outcome.line();
+    let (verdict, rest) = line.split_once(": ").unwrap_or((&line, ""));
+    // Our own wording, no model text: written as is.
+    let _ = writeln!(out, "**{verdict}**: {rest}\n");
+    if let Some(c) = outcome.coverage {
+        let _ = writeln!(
+            out,
+            "Coverage: {} have a ΔrG'° and so a direction verdict; the other {} could not be judged.\n",
+            c.phrase().replacen("judged ", "", 1),
+            c.internal - c.judged.min(c.internal)
+        );
+    }
     let _ = writeln!(
         out,
-        "**{} errors, {} warnings, {} notes** — {} reactions ({} internal, {} with ΔrG'°), {} metabolites, {} scenarios.\n",
-        s.errors, s.warnings, s.notes, s.reactions, s.internal_reactions, s.reactions_with_energy, s.metabolites, s.scenarios
+        "{} errors, {} warnings, {} notes — {} reactions ({} internal), {} metabolites, {} scenarios.\n",
+        s.errors, s.warnings, s.notes, s.reactions, s.internal_reactions, s.metabolites, s.scenarios
     );
-    let shown: Vec<_> = report
-        .findings
-        .iter()
-        .filter(|f| f.severity != Severity::Note)
-        .collect();
-    if !shown.is_empty() {
-        out.push_str("| severity | kind | subject | scenario | message |\n|---|---|---|---|---|\n");
-        for f in shown.iter().take(limit) {
+    let groups = groups(report);
+    if !groups.is_empty() {
+        out.push_str("### Findings by kind\n\n| severity | kind | count | what it means |\n|---|---|---:|---|\n");
+        for ((severity, kind), findings) in &groups {
+            let meaning = kinds::help(kind)
+                .map(|h| h.summary.to_string())
+                .or_else(|| kinds::check_of(report, kind).map(|(title, _)| title.to_string()))
+                .unwrap_or_default();
             let _ = writeln!(
                 out,
-                "| {} | `{}` | {} | {} | {} |",
-                f.severity.slug(),
-                f.kind,
+                "| {} | `{kind}` | {} | {} |",
+                severity.slug(),
+                findings.len(),
+                message(&meaning)
+            );
+        }
+        out.push('\n');
+    }
+    if !root_causes.is_empty() {
+        out.push_str("### Root causes\n\n| cause | findings it explains |\n|---|---:|\n");
+        for r in root_causes {
+            let _ = writeln!(out, "| {} | {} |", message(&r.cause), r.findings);
+        }
+        out.push('\n');
+    }
+    for ((severity, kind), findings) in &groups {
+        let _ = writeln!(
+            out,
+            "### {} `{kind}` ({})\n\n| subject | scenario | message |\n|---|---|---|",
+            severity.slug(),
+            findings.len()
+        );
+        for f in findings.iter().take(EXAMPLES_PER_KIND) {
+            let _ = writeln!(
+                out,
+                "| {} | {} | {} |",
                 code(f.subjects.first().map(String::as_str).unwrap_or("")),
                 code(f.scenario.as_deref().unwrap_or("")),
                 message(&f.message)
             );
         }
-        if shown.len() > limit {
-            let _ = writeln!(out, "\n… and {} more in the report.", shown.len() - limit);
+        if findings.len() > EXAMPLES_PER_KIND {
+            let _ = writeln!(
+                out,
+                "\n… and {} more of this kind in the report.",
+                findings.len() - EXAMPLES_PER_KIND
+            );
         }
         out.push('\n');
     }

@@ -1,7 +1,61 @@
 //! Plain-text listing of findings for the terminal (`gibbsite check`).
 
-use super::Report;
+use super::{Finding, Report, Severity};
+use crate::outcome::Outcome;
 use std::fmt::Write;
+
+/// The findings in groups of one severity and kind, most serious first,
+/// each group headed by its count (`error infeasible-direction (2)`), then
+/// the scenario verdicts, the counts, and the pass/fail line last.
+pub fn grouped_text(report: &Report, outcome: &Outcome) -> String {
+    let mut out = String::new();
+    for ((severity, kind), findings) in groups(report) {
+        let _ = writeln!(out, "{} {kind} ({})", severity.slug(), findings.len());
+        for f in findings {
+            let _ = writeln!(out, "  {}", finding_line(f));
+        }
+        out.push('\n');
+    }
+    out.push_str(&scenario_verdicts_text(report));
+    let s = &report.summary;
+    let kinds = s.by_kind.len();
+    let _ = writeln!(
+        out,
+        "{} findings of {kinds} kind{}: {} errors, {} warnings, {} notes ({} reactions, {} metabolites, {} scenarios)",
+        report.findings.len(),
+        if kinds == 1 { "" } else { "s" },
+        s.errors,
+        s.warnings,
+        s.notes,
+        s.reactions,
+        s.metabolites,
+        s.scenarios
+    );
+    let _ = writeln!(out, "{}", outcome.line());
+    out
+}
+
+/// Findings grouped by (severity, kind) in report order (severity, then kind).
+pub fn groups(report: &Report) -> Vec<((Severity, &str), Vec<&Finding>)> {
+    let mut groups: std::collections::BTreeMap<(Severity, &str), Vec<&Finding>> =
+        Default::default();
+    for f in &report.findings {
+        groups
+            .entry((f.severity, f.kind.as_str()))
+            .or_default()
+            .push(f);
+    }
+    groups.into_iter().collect()
+}
+
+/// `subject (scenario s): message`.
+fn finding_line(f: &Finding) -> String {
+    let subject = f.subjects.first().map(String::as_str).unwrap_or("-");
+    match &f.scenario {
+        Some(s) => format!("{subject} (scenario {s}): {}", f.message),
+        None => format!("{subject}: {}", f.message),
+    }
+}
 
 /// One line per finding: `error[kind] subject (scenario): message`.
 pub fn findings_text(report: &Report) -> String {

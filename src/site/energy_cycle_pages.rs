@@ -34,42 +34,39 @@ pub fn subject_pages(report: &Report) -> BTreeMap<String, String> {
     cycles(report).map(|c| (subject(c), page_name(c))).collect()
 }
 
-/// The pages of every cycle that exists.
-pub(super) fn pages(
+/// The page of one cycle that exists.
+pub(super) fn page(
     report: &Report,
+    c: &EnergyCycleView,
     maps: &map::MapContext<'_>,
     page: &dyn Fn(&'static str, String, &str, &str, Value) -> Page,
     findings_of: &dyn Fn(Option<&Vec<usize>>) -> Value,
-) -> Vec<Page> {
-    cycles(report)
-        .map(|c| {
-            let subject = subject(c);
-            let indices: Vec<usize> = report
-                .findings
-                .iter()
-                .enumerate()
-                .filter(|(_, f)| f.subjects.contains(&subject))
-                .map(|(i, _)| i)
-                .collect();
-            let members: Vec<&str> = c.example.iter().map(|m| m.reaction.as_str()).collect();
-            let network_map = map::reaction_set_map(
-                maps,
-                &format!("Reactions of the {subject} energy-generating cycle"),
-                &members,
-                None,
-            );
-            page(
-                "energy_cycle.html",
-                format!("loops/{}.html", page_name(c)),
-                "loops",
-                &format!("Energy-generating cycle: {subject}"),
-                context! {
-                    item => Value::from_serialize(c),
-                    findings => findings_of(Some(&indices)),
-                    network_map => network_map.map(Value::from_safe_string),
-                    cycle_reactions => members.len(),
-                },
-            )
-        })
-        .collect()
+) -> Page {
+    let subject = subject(c);
+    let indices: Vec<usize> = report
+        .findings
+        .iter()
+        .enumerate()
+        .filter(|(_, f)| f.subjects.contains(&subject))
+        .map(|(i, _)| i)
+        .collect();
+    let members: Vec<&str> = c.example.iter().map(|m| m.reaction.as_str()).collect();
+    let network_map = map::reaction_set_map(
+        maps,
+        &format!("Reactions of the {subject} energy-generating cycle"),
+        &members,
+        None,
+    );
+    page(
+        "energy_cycle.html",
+        format!("loops/{}.html", page_name(c)),
+        "loops",
+        &format!("Energy-generating cycle: {subject}"),
+        context! {
+            item => Value::from_serialize(c),
+            findings => findings_of(Some(&indices)),
+            network_map => network_map.map(Value::from_safe_string),
+            cycle_reactions => members.len(),
+        },
+    )
 }

@@ -26,20 +26,27 @@
 pub mod coverage;
 pub mod derived;
 pub mod energy_cycle_pages;
+pub mod evidence;
 pub mod format;
+pub mod lists;
 pub mod loop_map;
 pub mod map;
 pub mod markdown;
 pub mod scenario_svg;
+pub mod search;
 pub mod species_chart;
 pub mod svg;
 pub mod theme;
+pub mod typeset;
+pub mod verdicts;
 pub mod write;
 
 use crate::error::Error;
+use crate::progress::Progress;
 use crate::report::{Finding, Report, Severity};
 use minijinja::value::Value;
 use minijinja::{context, AutoEscape, Environment, UndefinedBehavior};
+use rayon::prelude::*;
 use serde::Serialize;
 use std::borrow::Cow;
 use std::collections::{BTreeMap, BTreeSet};
@@ -55,27 +62,60 @@ use write::Staging;
 /// any) is untouched and no temporary folder remains. A non-empty `out`
 /// that was not made by gibbsite is never replaced.
 pub fn render(report: &Report, theme_dir: Option<&Path>, out: &Path) -> Result<(), Error> {
+    render_with_progress(report, theme_dir, out, &Progress::hidden())
+}
+
+/// [`render`], shown and timed as the `pages` stage of `progress`.
+pub fn render_with_progress(
+    report: &Report,
+    theme_dir: Option<&Path>,
+    out: &Path,
+    progress: &Progress,
+) -> Result<(), Error> {
+    let mut stage = progress.stage(crate::progress::PAGES, None);
     let theme = Theme::load(theme_dir)?;
     let env = environment(&theme)?;
     let sorted = sorted_report(report);
     check_slugs(&sorted)?;
 
     let staging = Staging::new(out)?;
-    let json = serde_json::to_string_pretty(report).map_err(|e| Error::Render {
-        template: "report.json".into(),
-        message: e.to_string(),
-    })?;
-    staging.write("report.json", format!("{json}\n").as_bytes())?;
+    staging.write(
+        "report.json",
+        crate::report::json::to_json(report).as_bytes(),
+    )?;
     if let Some(csv) = coverage::missing_csv(&sorted) {
         staging.write(coverage::MISSING_CSV, csv.as_bytes())?;
     }
     for (name, bytes) in theme.assets() {
         staging.write(&format!("assets/{name}"), bytes)?;
     }
+    staging.write(search::INDEX_FILE, search::index_script(&sorted).as_bytes())?;
     let mut files = Vec::new();
-    for page in pages(&sorted, &mut files) {
-        let html = render_page(&env, &theme, &page)?;
+    let pages = Pages::new(&sorted);
+    let fixed = pages.fixed(&mut files);
+    let entities = pages.entities();
+    stage.set_length((fixed.len() + entities.len()) as u64);
+    // Each page is made, rendered and written by one worker and then
+    // dropped: pages go to disk as they are done. The first failing page in
+    // order is the error reported, whatever the workers' timing.
+    let write = |page: Page| -> Result<(), Error> {
+        let html = typeset::html(&render_page(&env, &theme, &page)?);
         staging.write(&page.path, html.as_bytes())?;
+        stage.inc(1);
+        Ok(())
+    };
+    let failed = fixed
+        .into_par_iter()
+        .map(write)
+        .find_first(Result::is_err)
+        .or_else(|| {
+            entities
+                .par_iter()
+                .map(|e| write(pages.entity(e)))
+                .find_first(Result::is_err)
+        });
+    if let Some(Err(e)) = failed {
+        return Err(e);
     }
     // Standalone copies of the maps (for papers and slides).
     for (path, svg) in files {
@@ -94,6 +134,8 @@ pub(crate) fn environment(theme: &Theme) -> Result<Environment<'static>, Error> 
     env.set_trim_blocks(true);
     env.set_lstrip_blocks(true);
     format::register(&mut env);
+    evidence::register(&mut env);
+    typeset::register(&mut env);
     env.add_filter("direction", loop_map::direction_words);
     for (name, source) in theme.templates()? {
         env.add_template_owned(name.to_owned(), source.to_owned())
@@ -290,10 +332,10 @@ fn check_slugs(report: &Report) -> Result<(), Error> {
 #[derive(Serialize)]
 struct SubjectLink<'a> {
     id: &'a str,
-    /// "reaction", "metabolite", "loop", "energy-cycle" (a row of the loop
-    /// index) or "" when the id has no page.
+    /// "reaction", "metabolite", "loop", "energy-cycle" or "" when the id
+    /// has no page.
     kind: &'static str,
-    /// Page name, or for "energy-cycle" the row's anchor.
+    /// Page name.
     slug: Cow<'a, str>,
 }
 
@@ -326,6 +368,8 @@ struct SiteIndex<'a> {
     loops: BTreeMap<&'a str, String>,
     /// Finding counts by severity slug, for every reaction id.
     reaction_counts: BTreeMap<&'a str, BTreeMap<&'static str, usize>>,
+    /// Direction badges and one-line verdict of every reaction id.
+    verdicts: BTreeMap<&'a str, verdicts::ReactionVerdicts>,
 }
 
 fn site_index(report: &Report) -> SiteIndex<'_> {
@@ -445,25 +489,66 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
         metabolites,
         loops,
         reaction_counts,
+        verdicts: verdicts::reaction_verdicts(report),
     }
 }
 
-/// Every page of the site with its context; standalone files (the maps'
-/// `.svg` copies) go to `files` as (path, content).
-fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
-    let report_value = Value::from_serialize(report);
-    let index = site_index(report);
-    let site_value = Value::from_serialize(&index);
-    // Findings of one page as values shared with `site.findings`.
-    let all_findings = site_value.get_attr("findings").unwrap_or_default();
-    let findings_of = |indices: Option<&Vec<usize>>| -> Value {
+/// What every page's context is made from: the report and the lookups
+/// derived from it, as template values shared by all pages (cheap to clone).
+/// Pages are made one at a time from it ([`Pages::fixed`] for the few list
+/// pages, [`Pages::entity`] for each reaction, metabolite, loop,
+/// energy-generating cycle and scenario), so the whole site is never held in memory.
+struct Pages<'r> {
+    report: &'r Report,
+    report_value: Value,
+    site_value: Value,
+    all_findings: Value,
+    index: SiteIndex<'r>,
+    maps: map::MapContext<'r>,
+}
+
+/// One entity page still to be made.
+enum Entity<'r> {
+    Reaction(&'r crate::report::ReactionView),
+    Metabolite(&'r crate::report::MetaboliteView),
+    Loop(&'r crate::report::LoopView),
+    EnergyCycle(&'r crate::report::EnergyCycleView),
+    Scenario(&'r crate::report::JointScenarioView),
+}
+
+impl<'r> Pages<'r> {
+    fn new(report: &'r Report) -> Pages<'r> {
+        let report_value = Value::from_serialize(report);
+        let index = site_index(report);
+        let site_value = Value::from_serialize(&index);
+        // Findings of one page as values shared with `site.findings`.
+        let all_findings = site_value.get_attr("findings").unwrap_or_default();
+        Pages {
+            report,
+            report_value,
+            site_value,
+            all_findings,
+            index,
+            maps: map::MapContext::new(report),
+        }
+    }
+
+    fn findings_of(&self, indices: Option<&Vec<usize>>) -> Value {
         indices
             .into_iter()
             .flatten()
-            .filter_map(|&i| all_findings.get_item_by_index(i).ok())
+            .filter_map(|&i| self.all_findings.get_item_by_index(i).ok())
             .collect()
-    };
-    let page = |template: &'static str, path: String, section: &str, title: &str, extra: Value| {
+    }
+
+    fn page(
+        &self,
+        template: &'static str,
+        path: String,
+        section: &str,
+        title: &str,
+        extra: Value,
+    ) -> Page {
         let depth = path.matches('/').count();
         // Our own value, not model data: safe, so `/` is not escaped in hrefs.
         let root = Value::from_safe_string("../".repeat(depth));
@@ -477,188 +562,247 @@ fn pages(report: &Report, files: &mut Vec<(String, String)>) -> Vec<Page> {
             template,
             path,
             context: context! {
-                report => report_value.clone(),
-                site => site_value.clone(),
+                report => self.report_value.clone(),
+                site => self.site_value.clone(),
                 page => info,
                 path_to_root => root,
                 ..extra
             },
         }
-    };
+    }
 
-    let mut out = vec![
-        page(
-            "index.html",
-            "index.html".into(),
-            "overview",
-            "Overview",
-            context! {},
-        ),
-        page(
-            "findings.html",
-            "findings.html".into(),
-            "findings",
-            "Findings",
-            context! {},
-        ),
-        page(
-            "reactions.html",
-            "reactions/index.html".into(),
-            "reactions",
-            "Reactions",
-            context! {},
-        ),
-        page(
-            "metabolites.html",
-            "metabolites/index.html".into(),
-            "metabolites",
-            "Metabolites",
-            context! {},
-        ),
-        page(
-            "coverage.html",
-            "coverage.html".into(),
-            "coverage",
-            "Data coverage",
-            context! { missing_csv => coverage::MISSING_CSV },
-        ),
-    ];
-    let maps = map::MapContext::new(report);
-    let mut near = map::pages::neighbourhoods(&maps);
-    out.extend(
-        map_pages(&maps, files)
-            .into_iter()
-            .map(|(path, title, extra)| {
-                let template = if path == "maps/index.html" {
-                    "maps.html"
-                } else {
-                    "map.html"
-                };
-                page(template, path, "maps", &title, extra)
-            }),
-    );
-    let multiplier = report.project.sigma_multiplier;
-    for reaction in &report.reactions {
-        let bar = reaction.dg_range.map(|range| {
-            svg::range_bar(
-                &reaction.id,
-                &svg::RangeBar {
-                    min: range.min,
-                    max: range.max,
-                    allowance: reaction
-                        .drg_prime
-                        .as_ref()
-                        .map_or(0.0, |e| multiplier * e.sigma_kj),
-                    standard: reaction.drg_prime.as_ref().map(|e| e.value_kj),
-                    measured: reaction.dg_measured,
-                },
-            )
-        });
-        out.push(page(
-            "reaction.html",
-            format!("reactions/{}.html", reaction.slug),
-            "reactions",
-            &reaction.id,
-            context! {
-                item => Value::from_serialize(reaction),
-                findings => findings_of(index.reaction_findings.get(reaction.id.as_str())),
-                range_bar => bar.map(Value::from_safe_string),
-                breakdown => derived::breakdown(reaction),
-                network_map => near.reactions.remove(reaction.id.as_str())
-                    .map(Value::from_safe_string),
-            },
-        ));
-    }
-    for metabolite in &report.metabolites {
-        let species = metabolite.species.as_ref();
-        let place = report
-            .compartments
+    /// Every entity page still to be made, in a fixed order.
+    fn entities(&self) -> Vec<Entity<'r>> {
+        let report = self.report;
+        report
+            .reactions
             .iter()
-            .find(|c| c.id == metabolite.compartment)
-            .map_or(metabolite.compartment.as_str(), |c| c.name.as_str());
-        let chart = species.and_then(|s| species_chart::species_chart(&metabolite.id, place, s));
-        out.push(page(
-            "metabolite.html",
-            format!("metabolites/{}.html", metabolite.slug),
-            "metabolites",
-            &metabolite.id,
-            context! {
-                item => Value::from_serialize(metabolite),
-                findings => findings_of(index.metabolite_findings.get(metabolite.id.as_str())),
-                species_chart => chart.as_ref().map(|c| Value::from_safe_string(c.svg.clone())),
-                // Labels of the species too scarce to draw.
-                not_drawn => chart.as_ref().map(|c| {
-                    c.not_drawn
-                        .iter()
-                        .filter_map(|&k| species.map(|s| s.entries[k].label.clone()))
-                        .collect::<Vec<_>>()
-                }),
-                species_dfg_prime_kj => species.and_then(derived::reactant_dfg_prime_kj),
-                network_map => near.metabolites.remove(metabolite.id.as_str())
-                    .map(Value::from_safe_string),
-            },
-        ));
+            .map(Entity::Reaction)
+            .chain(report.metabolites.iter().map(Entity::Metabolite))
+            .chain(report.loops.iter().flat_map(|l| &l.loops).map(Entity::Loop))
+            .chain(energy_cycle_pages::cycles(report).map(Entity::EnergyCycle))
+            .chain(report.joint_scenarios.iter().map(Entity::Scenario))
+            .collect()
     }
-    if !report.notes.is_empty() {
+
+    /// The list pages, maps and notes; standalone files (the maps' `.svg`
+    /// copies) go to `files` as (path, content).
+    fn fixed(&self, files: &mut Vec<(String, String)>) -> Vec<Page> {
+        let report = self.report;
+        let page = |template, path, section: &str, title: &str, extra| {
+            self.page(template, path, section, title, extra)
+        };
+        let mut out = vec![
+            page(
+                "index.html",
+                "index.html".into(),
+                "overview",
+                "Overview",
+                context! {},
+            ),
+            page(
+                "findings.html",
+                "findings.html".into(),
+                "findings",
+                "Findings",
+                context! {},
+            ),
+            page(
+                "kinds.html",
+                "kinds.html".into(),
+                "findings",
+                "Finding kinds",
+                context! { kinds => crate::report::kinds::site_rows(report) },
+            ),
+            page(
+                "coverage.html",
+                "coverage.html".into(),
+                "coverage",
+                "Data coverage",
+                context! { missing_csv => coverage::MISSING_CSV },
+            ),
+        ];
+        for (template, dir, title, total) in [
+            (
+                "reactions.html",
+                "reactions",
+                "Reactions",
+                report.reactions.len(),
+            ),
+            (
+                "metabolites.html",
+                "metabolites",
+                "Metabolites",
+                report.metabolites.len(),
+            ),
+        ] {
+            for p in lists::pages(dir, total) {
+                let title = match p.pages {
+                    1 => title.to_string(),
+                    n => format!("{title} ({} of {n})", p.number),
+                };
+                let extra = context! { pager => Value::from_serialize(&p) };
+                out.push(page(template, p.path, dir, &title, extra));
+            }
+        }
+        out.extend(
+            map_pages(&self.maps, files)
+                .into_iter()
+                .map(|(path, title, extra)| {
+                    let template = if path == "maps/index.html" {
+                        "maps.html"
+                    } else {
+                        "map.html"
+                    };
+                    page(template, path, "maps", &title, extra)
+                }),
+        );
+        if !report.notes.is_empty() {
+            out.push(page(
+                "notes.html",
+                "notes/index.html".into(),
+                "notes",
+                "Notes",
+                context! {},
+            ));
+        }
+        for note in &report.notes {
+            out.push(page(
+                "note.html",
+                format!("notes/{}.html", note.slug),
+                "notes",
+                &note.title,
+                context! {
+                    item => Value::from_serialize(note),
+                    body => Value::from_safe_string(markdown::to_html(&note.markdown)),
+                },
+            ));
+        }
+        // Always written: it says so when the analysis was switched off.
         out.push(page(
-            "notes.html",
-            "notes/index.html".into(),
-            "notes",
-            "Notes",
+            "loops.html",
+            "loops/index.html".into(),
+            "loops",
+            "Loops",
             context! {},
         ));
+        out
     }
-    for note in &report.notes {
-        out.push(page(
-            "note.html",
-            format!("notes/{}.html", note.slug),
-            "notes",
-            &note.title,
-            context! {
-                item => Value::from_serialize(note),
-                body => Value::from_safe_string(markdown::to_html(&note.markdown)),
-            },
-        ));
-    }
-    // Always written: it says so when the analysis was switched off.
-    out.push(page(
-        "loops.html",
-        "loops/index.html".into(),
-        "loops",
-        "Loops",
-        context! {},
-    ));
-    for l in report.loops.iter().flat_map(|l| &l.loops) {
-        let map = loop_map::loop_map(&l.id, &l.members);
-        out.push(page(
-            "loop.html",
-            format!("loops/{}.html", index.loops[l.id.as_str()]),
-            "loops",
-            &l.id,
-            context! {
-                item => Value::from_serialize(l),
-                findings => findings_of(index.loop_findings.get(l.id.as_str())),
-                cycle_map => map.as_ref().map(|m| Value::from_safe_string(m.svg.clone())),
-                network_map => {
-                    let members: Vec<&str> =
-                        l.members.iter().map(|m| m.reaction.as_str()).collect();
-                    map::reaction_set_map(&maps, &format!("Reactions of {}", l.id), &members, None)
-                        .map(Value::from_safe_string)
+
+    /// The page of one reaction, metabolite, loop, energy-generating cycle
+    /// or scenario.
+    fn entity(&self, entity: &Entity<'r>) -> Page {
+        let report = self.report;
+        match *entity {
+            Entity::Reaction(reaction) => {
+                let multiplier = report.project.sigma_multiplier;
+                let bar = reaction.dg_range.map(|range| {
+                    svg::range_bar(
+                        &reaction.id,
+                        &svg::RangeBar {
+                            min: range.min,
+                            max: range.max,
+                            allowance: reaction
+                                .drg_prime
+                                .as_ref()
+                                .map_or(0.0, |e| multiplier * e.sigma_kj),
+                            standard: reaction.drg_prime.as_ref().map(|e| e.value_kj),
+                            measured: reaction.dg_measured,
+                        },
+                    )
+                });
+                self.page(
+                    "reaction.html",
+                    format!("reactions/{}.html", reaction.slug),
+                    "reactions",
+                    &reaction.id,
+                    context! {
+                        item => Value::from_serialize(reaction),
+                        findings => self.findings_of(self.index.reaction_findings.get(reaction.id.as_str())),
+                        range_bar => bar.map(Value::from_safe_string),
+                        breakdown => derived::breakdown(reaction),
+                        network_map => map::pages::reaction_neighbourhood(&self.maps, &reaction.id)
+                            .map(|d| Value::from_safe_string(d.svg)),
+                    },
+                )
+            }
+            Entity::Metabolite(metabolite) => {
+                let species = metabolite.species.as_ref();
+                let place = report
+                    .compartments
+                    .iter()
+                    .find(|c| c.id == metabolite.compartment)
+                    .map_or(metabolite.compartment.as_str(), |c| c.name.as_str());
+                let chart =
+                    species.and_then(|s| species_chart::species_chart(&metabolite.id, place, s));
+                self.page(
+                    "metabolite.html",
+                    format!("metabolites/{}.html", metabolite.slug),
+                    "metabolites",
+                    &metabolite.id,
+                    context! {
+                        item => Value::from_serialize(metabolite),
+                        findings => self.findings_of(self.index.metabolite_findings.get(metabolite.id.as_str())),
+                        verdict_line => Value::from_serialize(verdicts::metabolite_line(
+                            &self.index.metabolite_findings.get(metabolite.id.as_str())
+                                .map_or(Vec::new(), |v| v.iter().map(|&i| &report.findings[i]).collect::<Vec<_>>()),
+                            metabolite.dfg_prime.is_some(),
+                            metabolite.consumed_by.len() + metabolite.produced_by.len(),
+                            &metabolite.special,
+                        )),
+                        species_chart => chart.as_ref().map(|c| Value::from_safe_string(c.svg.clone())),
+                        // Labels of the species too scarce to draw.
+                        not_drawn => chart.as_ref().map(|c| {
+                            c.not_drawn
+                                .iter()
+                                .filter_map(|&k| species.map(|s| s.entries[k].label.clone()))
+                                .collect::<Vec<_>>()
+                        }),
+                        species_dfg_prime_kj => species.and_then(|s| s.reactant_dfg_prime_kj),
+                        network_map => map::pages::metabolite_neighbourhood(&self.maps, &metabolite.id)
+                            .map(|d| Value::from_safe_string(d.svg)),
+                    },
+                )
+            }
+            Entity::Loop(l) => {
+                let map = loop_map::loop_map(&l.id, &l.members);
+                self.page(
+                    "loop.html",
+                    format!("loops/{}.html", self.index.loops[l.id.as_str()]),
+                    "loops",
+                    &l.id,
+                    context! {
+                        item => Value::from_serialize(l),
+                        findings => self.findings_of(self.index.loop_findings.get(l.id.as_str())),
+                        cycle_map => map.as_ref().map(|m| Value::from_safe_string(m.svg.clone())),
+                        network_map => {
+                            let members: Vec<&str> =
+                                l.members.iter().map(|m| m.reaction.as_str()).collect();
+                            map::reaction_set_map(&self.maps, &format!("Reactions of {}", l.id), &members, None)
+                                .map(Value::from_safe_string)
+                        },
+                        not_on_arrows => map.map(|m| m.not_on_arrows),
+                    },
+                )
+            }
+            Entity::EnergyCycle(c) => energy_cycle_pages::page(
+                report,
+                c,
+                &self.maps,
+                &|template, path, section, title, extra| {
+                    self.page(template, path, section, title, extra)
                 },
-                not_on_arrows => map.map(|m| m.not_on_arrows),
-            },
-        ));
+                &|indices| self.findings_of(indices),
+            ),
+            Entity::Scenario(s) => scenario_page(
+                &|template, path, section, title, extra| {
+                    self.page(template, path, section, title, extra)
+                },
+                &self.maps,
+                s,
+            ),
+        }
     }
-    out.extend(energy_cycle_pages::pages(
-        report,
-        &maps,
-        &page,
-        &findings_of,
-    ));
-    for s in &report.joint_scenarios {
-        out.push(scenario_page(&page, &maps, s));
-    }
-    out
 }
 
 /// The page of one scenario judged as a whole, with its drawings.

@@ -25,6 +25,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "macros.html",
     "index.html",
     "findings.html",
+    "kinds.html",
     "coverage.html",
     "reactions.html",
     "reaction.html",
@@ -42,8 +43,11 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "map_section.html",
     "map_key.html",
     "style.css",
+    "pages.css",
     "table.js",
     "map.js",
+    "search.js",
+    "pager.html",
 ];
 
 /// The theme in use: file name (with `/` between folders) → content.

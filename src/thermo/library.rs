@@ -67,13 +67,10 @@ impl LibraryEntry {
         }
     }
 
-    /// One-line source text for reports.
+    /// One-line source text for reports: where the values were printed and
+    /// how they were checked (see [`super::provenance`]).
     pub fn source(&self) -> String {
-        format!(
-            "built-in library entry '{}': R. A. Alberty, Thermodynamics of Biochemical \
-             Reactions (Wiley, 2003); per-value provenance in the library",
-            self.key
-        )
+        super::provenance::sentence(&self.key)
     }
 }
 

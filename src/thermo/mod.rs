@@ -11,6 +11,7 @@ pub mod reaction;
 pub mod legendre;
 pub mod library;
 pub mod metabolite;
+pub mod provenance;
 pub mod transport;
 pub mod transport_only;
 pub mod uncertainty;

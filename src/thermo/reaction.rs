@@ -7,8 +7,8 @@
 //! the transformed ΔG'°) are left out of Q.
 
 use super::constants::rt;
+use crate::finding::Verdict;
 use crate::model::Range;
-use crate::report::Verdict;
 
 /// A participant as the range computation needs it.
 #[derive(Debug, Clone, Copy, PartialEq)]

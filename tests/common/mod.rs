@@ -2,6 +2,8 @@
 //! models of ../shared/models and saying visibly when they are absent.
 #![allow(dead_code)] // each test file uses a part
 
+pub mod browser;
+
 use std::path::{Path, PathBuf};
 
 /// `GIBBSITE_MODELS_DIR` when set (a checkout whose `shared/` is elsewhere),

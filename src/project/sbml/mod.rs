@@ -44,6 +44,7 @@ pub use roles::{infer_role, is_extracellular, RoleClues};
 
 use crate::error::{Diagnostic, Error};
 use crate::model::{Compartment, Metabolite, Model, Reaction, Special, DEFAULT_FLUX_BOUND};
+use crate::project::locations::SourceLines;
 use crate::project::read;
 use position::LineIndex;
 use roxmltree::Node;
@@ -67,13 +68,23 @@ const PACKAGE_PREFIX: &str = "http://www.sbml.org/sbml/level3/version1/";
 /// Reads an SBML file, gzipped or not (recognised by its content); the file
 /// and its decompressed text are capped (see [`crate::project::read`]).
 pub fn read_sbml(path: &Path) -> Result<Model, Error> {
+    read_sbml_located(path).map(|(model, _)| model)
+}
+
+/// [`read_sbml`], with the line of every compartment, species and reaction.
+pub fn read_sbml_located(path: &Path) -> Result<(Model, SourceLines), Error> {
     let bytes = read::read_bytes(path).map_err(Error::input)?;
     let text = decode(bytes, path)?;
-    parse_sbml(&text, path)
+    parse_sbml_located(&text, path)
 }
 
 /// Parses SBML text; `file` is only used in error messages.
 pub fn parse_sbml(text: &str, file: &Path) -> Result<Model, Error> {
+    parse_sbml_located(text, file).map(|(model, _)| model)
+}
+
+/// [`parse_sbml`], with element lines recorded while reading.
+pub fn parse_sbml_located(text: &str, file: &Path) -> Result<(Model, SourceLines), Error> {
     let options = roxmltree::ParsingOptions {
         allow_dtd: false,
         ..Default::default()
@@ -98,7 +109,8 @@ pub fn parse_sbml(text: &str, file: &Path) -> Result<Model, Error> {
     }
     if reader.problems.is_empty() {
         if let Some(model) = model {
-            return Ok(model);
+            let lines = SourceLines::known(file, element_lines(&document, text));
+            return Ok((model, lines));
         }
     }
     let index = LineIndex::new(text.as_bytes());
@@ -115,6 +127,18 @@ pub fn parse_sbml(text: &str, file: &Path) -> Result<Model, Error> {
             })
             .collect(),
     ))
+}
+
+/// (id, 1-based line) of every compartment, species and reaction element.
+fn element_lines(document: &roxmltree::Document, text: &str) -> Vec<(String, usize)> {
+    let index = LineIndex::new(text.as_bytes());
+    document
+        .descendants()
+        .filter(|n| {
+            n.is_element() && matches!(n.tag_name().name(), "compartment" | "species" | "reaction")
+        })
+        .filter_map(|n| Some((n.attribute("id")?.to_string(), index.line(n.range().start))))
+        .collect()
 }
 
 /// Gunzips when the bytes start with the gzip magic number, then checks UTF-8.

@@ -20,6 +20,12 @@ impl<'a> LineIndex<'a> {
         LineIndex { bytes, starts }
     }
 
+    /// 1-based line of a byte offset (no column: cheap on one-line files).
+    pub(crate) fn line(&self, offset: usize) -> usize {
+        self.starts
+            .partition_point(|&s| s <= offset.min(self.bytes.len()))
+    }
+
     /// 1-based (line, column) of a byte offset; the column counts
     /// characters, not bytes, so it matches what an editor shows.
     pub(crate) fn locate(&self, offset: usize) -> (usize, usize) {
@@ -49,5 +55,7 @@ mod tests {
         assert_eq!(index.locate(8), (3, 1));
         assert_eq!(index.locate(9), (4, 1));
         assert_eq!(index.locate(999), (4, 2));
+        assert_eq!(index.line(7), 2);
+        assert_eq!(index.line(9), 4);
     }
 }

@@ -413,7 +413,9 @@ pub fn shared_assets() -> [(String, String); 2] {
 
 /// The neighbourhood maps of every reaction and metabolite page, as
 /// inline SVG by id, drawn in parallel (each map is independent; the
-/// result does not depend on the order).
+/// result does not depend on the order). The site does not hold them all:
+/// it draws each on the worker that writes its page; `bench maps` draws
+/// them all here.
 pub struct Neighbourhoods<'a> {
     pub reactions: BTreeMap<&'a str, String>,
     pub metabolites: BTreeMap<&'a str, String>,

@@ -1,0 +1,174 @@
+//! Layout of the rendered site (issue 12, point 6): long lists split into
+//! pages of at most 500 rows, the site-wide search index shipped as a
+//! script file, a search box on every page that stays hidden without
+//! JavaScript, and the narrow-screen rules that keep verdict columns in
+//! view. How pages fit the window in a real browser is checked by
+//! tests/browser_site.rs.
+
+use gibbsite::report::Report;
+use std::fs;
+use std::path::Path;
+
+fn demo_report() -> Report {
+    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");
+    gibbsite::Project::load(&dir)
+        .expect("the demo project loads")
+        .analyse()
+}
+
+/// The demo's reactions copied until there are `n` (ids `COPY00001_…`),
+/// so the reactions list needs several pages.
+fn with_reactions(mut report: Report, n: usize) -> Report {
+    let originals = report.reactions.clone();
+    let mut k = 0;
+    while report.reactions.len() < n {
+        let mut r = originals[k % originals.len()].clone();
+        k += 1;
+        r.id = format!("COPY{k:05}_{}", r.id);
+        r.slug = r.id.clone();
+        report.reactions.push(r);
+    }
+    report
+}
+
+fn rows(html: &str) -> usize {
+    let body = &html[html.find("<tbody>").unwrap()..html.find("</tbody>").unwrap()];
+    body.matches("<tr>").count()
+}
+
+#[test]
+fn long_lists_are_split_into_pages_of_at_most_500_rows() {
+    let report = with_reactions(demo_report(), 1001);
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    gibbsite::site::render(&report, None, &out).unwrap();
+    let dir = out.join("reactions");
+    let pages: Vec<String> = ["index.html", "index.2.html", "index.3.html"]
+        .iter()
+        .map(|p| fs::read_to_string(dir.join(p)).unwrap_or_else(|e| panic!("{p}: {e}")))
+        .collect();
+    assert!(!dir.join("index.4.html").exists());
+    assert_eq!(
+        pages.iter().map(|p| rows(p)).collect::<Vec<_>>(),
+        [500, 500, 1]
+    );
+    // Every reaction appears on exactly one page, in the sorted order.
+    let mut ids: Vec<String> = report.reactions.iter().map(|r| r.slug.clone()).collect();
+    ids.sort();
+    let listed: Vec<String> = pages
+        .iter()
+        .flat_map(|p| {
+            let body = &p[p.find("<tbody>").unwrap()..p.find("</tbody>").unwrap()];
+            body.split("<th scope=\"row\"><a href=\"")
+                .skip(1)
+                .map(|s| s[..s.find(".html\"").unwrap()].to_string())
+                .collect::<Vec<_>>()
+        })
+        .collect();
+    assert_eq!(listed, ids);
+    // Each page links to the others and marks itself.
+    assert!(pages[1].contains("<a href=\"index.html\">1–500</a>"));
+    assert!(pages[1].contains("<span class=\"current\" aria-current=\"page\">501–1000</span>"));
+    assert!(pages[1].contains("<a href=\"index.3.html\">1001–1001</a>"));
+    assert!(pages[2].contains("<title>Reactions (3 of 3) · "));
+    // The demo's metabolites fit on one page: no pager.
+    let metabolites = fs::read_to_string(out.join("metabolites/index.html")).unwrap();
+    assert!(!metabolites.contains("class=\"pager\""));
+    assert!(!out.join("metabolites/index.2.html").exists());
+    // 500 rows stay far below 500 kB (Recon3D's lists are this size per page).
+    for (k, p) in pages.iter().enumerate() {
+        assert!(p.len() < 500_000, "page {} is {} bytes", k + 1, p.len());
+    }
+}
+
+#[test]
+fn search_index_is_a_script_and_every_page_has_the_search_box() {
+    let report = demo_report();
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    gibbsite::site::render(&report, None, &out).unwrap();
+    let script = fs::read_to_string(out.join("assets/search-index.js")).unwrap();
+    let json = script
+        .split_once("window.gibbsiteSearch = ")
+        .expect("the index assigns one global")
+        .1
+        .trim_end()
+        .strip_suffix(';')
+        .unwrap();
+    let entries: Vec<[String; 4]> = serde_json::from_str(json).unwrap();
+    let loops = report.loops.as_ref().map_or(0, |l| l.loops.len());
+    assert_eq!(
+        entries.len(),
+        report.reactions.len()
+            + report.metabolites.len()
+            + loops
+            + report.joint_scenarios.len()
+            + report.notes.len()
+    );
+    let adh = entries.iter().find(|e| e[1] == "ADH").unwrap();
+    assert_eq!(
+        adh,
+        &[
+            "reaction".to_string(),
+            "ADH".into(),
+            "alcohol dehydrogenase".into(),
+            "reactions/ADH.html".into()
+        ]
+    );
+    // Every entry's page exists.
+    for e in &entries {
+        assert!(out.join(&e[3]).is_file(), "{e:?}");
+    }
+    // The search script is our own asset; the box is on every page, hidden
+    // until the script shows it, with the page's way back to the root.
+    assert!(out.join("assets/search.js").is_file());
+    for (path, root) in [
+        ("index.html", ""),
+        ("reactions/index.html", "../"),
+        ("reactions/ADH.html", "../"),
+        ("metabolites/glc_c.html", "../"),
+        ("findings.html", ""),
+    ] {
+        let html = fs::read_to_string(out.join(path)).unwrap();
+        assert!(
+            html.contains(&format!(
+                "<form class=\"site-search\" role=\"search\" data-root=\"{root}\" hidden>"
+            )),
+            "{path}"
+        );
+        assert!(
+            html.contains(&format!(
+                "<script src=\"{root}assets/search.js\" defer></script>"
+            )),
+            "{path}"
+        );
+    }
+}
+
+#[test]
+fn narrow_screens_keep_ids_and_verdicts_and_drop_secondary_columns() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    gibbsite::site::render(&demo_report(), None, &out).unwrap();
+    let css = fs::read_to_string(out.join("assets/pages.css")).unwrap();
+    let narrow = &css[css
+        .find("@media (max-width: 600px)")
+        .expect("a narrow layout")..];
+    assert!(narrow.contains("table.data .secondary { display: none; }"));
+    assert!(css.contains("overflow-wrap: anywhere"));
+    assert!(css.contains("table.data { display: block; max-width: 100%; overflow-x: auto; }"));
+    // On the reactions list the name and energy columns give way; the id,
+    // the two verdicts and the findings stay.
+    let list = fs::read_to_string(out.join("reactions/index.html")).unwrap();
+    let head = &list[list.find("<thead>").unwrap()..list.find("</thead>").unwrap()];
+    let kept: Vec<&str> = head
+        .split("<th scope=\"col\"")
+        .skip(1)
+        .filter(|th| !th.contains("class=\"secondary\""))
+        .map(|th| {
+            let text = &th[th.find('>').unwrap() + 1..];
+            &text[..text.find('<').unwrap()]
+        })
+        .collect();
+    assert_eq!(kept, ["Reaction", "Forward", "Backward", "Findings"]);
+}
