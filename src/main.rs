@@ -66,6 +66,10 @@ enum Command {
         /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
         #[arg(long = "data", value_name = "TABLE")]
         data: Vec<PathBuf>,
+        /// Exit with 1 when fewer than this percentage of internal
+        /// reactions could be judged (have a ΔG′° estimate), e.g. 50.
+        #[arg(long, value_name = "PERCENT", value_parser = gibbsite::report::headline::parse_min_coverage)]
+        min_coverage: Option<f64>,
         /// Render with the default theme even if the project has its own
         /// (a project theme is trusted code: use this for third-party models).
         #[arg(long)]
@@ -107,6 +111,10 @@ enum Command {
         /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
         #[arg(long = "data", value_name = "TABLE")]
         data: Vec<PathBuf>,
+        /// Exit with 1 when fewer than this percentage of internal
+        /// reactions could be judged (have a ΔG′° estimate), e.g. 50.
+        #[arg(long, value_name = "PERCENT", value_parser = gibbsite::report::headline::parse_min_coverage)]
+        min_coverage: Option<f64>,
         /// What to print on standard output.
         #[arg(long, value_enum, default_value_t = Format::Text)]
         format: Format,
@@ -217,6 +225,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             baseline,
             data,
             no_project_theme,
+            min_coverage,
             confine,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
@@ -231,7 +240,8 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             gibbsite::site::render(&report, theme, &out)?;
             print_summary(&report);
             eprintln!("site written to {}", out.display());
-            Ok(exit_code(&report, fail_on, baseline.as_ref()))
+            let code = exit_code(&report, fail_on, baseline.as_ref());
+            Ok(coverage_gate(&report, min_coverage).unwrap_or(code))
         }
         Command::Import {
             model,
@@ -267,6 +277,7 @@ fn run(command: Command) -> Result<ExitCode, Error> {
             baseline,
             format,
             data,
+            min_coverage,
             confine,
         } => {
             let baseline = baseline.as_deref().map(baseline::load).transpose()?;
@@ -293,9 +304,17 @@ fn run(command: Command) -> Result<ExitCode, Error> {
                 }
             }
             print_summary(&report);
-            Ok(exit_code(&report, fail_on, baseline.as_ref()))
+            let code = exit_code(&report, fail_on, baseline.as_ref());
+            Ok(coverage_gate(&report, min_coverage).unwrap_or(code))
         }
     }
+}
+
+/// Exit 1 with one line when the judged share is below `--min-coverage`.
+fn coverage_gate(report: &Report, min_percent: Option<f64>) -> Option<ExitCode> {
+    let line = gibbsite::report::headline::below_minimum(report.headline.as_ref()?, min_percent?)?;
+    eprintln!("{line}");
+    Some(ExitCode::from(1))
 }
 
 /// Load a project, apply `--data` tables and print load warnings.

@@ -670,6 +670,8 @@ fn fixture() -> Report {
         loops: Some(loops_view()),
         joint_scenarios: Vec::new(),
         coverage: None,
+        headline: None,
+        root_causes: Vec::new(),
     }
 }
 

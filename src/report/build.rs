@@ -69,7 +69,7 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
             })
             .collect(),
     };
-    Report {
+    let mut report = Report {
         schema_version: REPORT_SCHEMA_VERSION,
         tool: ToolInfo {
             name: "gibbsite".into(),
@@ -132,7 +132,12 @@ pub fn build(project: &Project, analysis: &Analysis, findings: Vec<Finding>) -> 
             },
         ),
         coverage: Some(super::coverage::coverage(analysis)),
-    }
+        headline: None,
+        root_causes: Vec::new(),
+    };
+    report.headline = Some(super::headline::headline(&report));
+    report.root_causes = super::root_causes::root_causes(&report);
+    report
 }
 
 /// SOURCE_DATE_EPOCH as seconds: `Ok(None)` when unset or empty, an error
