@@ -64,7 +64,9 @@ reactions:
     assert_eq!(c.metabolites, ["h_c"]);
     assert_eq!(c.finding_kinds, ["charge-imbalance"]);
     assert_eq!(c.title, "H⁺ species with charge 0");
-    assert!(c.sentence.starts_with("2 reactions are unbalanced by exactly this difference: the model's H⁺ species h_c has charge 0"), "{}", c.sentence);
+    assert!(c.sentence.starts_with(
+        "2 imbalanced reactions balance with this fix alone: the model's H⁺ species h_c has charge 0, yet it is treated as H⁺"
+    ), "{}", c.sentence);
     assert!(c.sentence.ends_with("set it to +1."), "{}", c.sentence);
     // R3 stays unexplained by any cause: one finding shares nothing.
     assert!(report
@@ -154,9 +156,10 @@ reactions:
 }
 
 /// The demo (projects/lakeside): its five error-level contradictions
-/// (PEPS against its bounds, LDH and PEPS in the dusk scenario, and the
-/// dusk scenario's conflicting sets) all involve pyruvate, whose own range
-/// 50 µM … 5 mM (model.yaml) every one of their ΔG' bounds uses.
+/// (PEPS against its bounds; LDH and PEPS in scenario dusk; PEPS in refit;
+/// the conflicting set PLC1–PLC3 in bloom, which starts from pyruvate) all
+/// involve pyruvate, whose own range 50 µM … 5 mM (model.yaml) every one
+/// of their ΔG' bounds uses.
 #[test]
 fn demo_contradictions_share_pyruvate() {
     let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("projects/lakeside");

@@ -85,14 +85,17 @@ pub fn root_causes(report: &Report) -> Vec<RootCauseView> {
         .iter()
         .map(|r| (r.id.as_str(), r))
         .collect();
-    let mut open = open_imbalances(report, &reactions);
+    let mut open = Ledger {
+        open: open_imbalances(report, &reactions),
+        credits: Vec::new(),
+        alone: Vec::new(),
+    };
     let mut causes = Vec::new();
     for (kind, special, expected_formula, expected_charge, what) in [
         ("proton-species", "proton", "H", 1, "H⁺"),
         ("water-species", "water", "H2O", 0, "water"),
     ] {
         if let Some(c) = special_cause(
-            report,
             &metabolites,
             &mut open,
             Special {
@@ -106,8 +109,20 @@ pub fn root_causes(report: &Report) -> Vec<RootCauseView> {
             causes.push(c);
         }
     }
-    causes.extend(library_causes(report, &metabolites, &mut open));
-    causes.extend(one_metabolite_causes(report, &metabolites, &mut open));
+    causes.extend(library_causes(&metabolites, &mut open));
+    causes.extend(one_metabolite_causes(&metabolites, &mut open));
+    // Every imbalance cause took one ledger entry, in order: fill in the
+    // findings each one helps to balance.
+    for (k, c) in causes.iter_mut().enumerate() {
+        let mut findings = std::mem::take(&mut open.credits[k]);
+        findings.sort_unstable();
+        findings.dedup();
+        c.sentence = c
+            .sentence
+            .replace(EXPLAINED, &explained_phrase(findings.len(), open.alone[k]));
+        c.finding_kinds = kinds_of(report, &findings);
+        c.findings = findings;
+    }
     causes.extend(shared_range_causes(report, &metabolites, &reactions));
     // Stable sort: ties keep the order found.
     causes.sort_by_key(|c| std::cmp::Reverse(c.explains()));
@@ -120,6 +135,49 @@ struct Open<'a> {
     finding: usize,
     participants: BTreeMap<&'a str, i64>,
     residual: Delta,
+    /// Causes (ledger entries) whose fixes changed it so far.
+    touched: Vec<usize>,
+}
+
+/// Open imbalance findings and, per cause found so far, the findings its
+/// fix helps to balance.
+struct Ledger<'a> {
+    open: Vec<Open<'a>>,
+    /// Per cause: findings balanced once its fix and the fixes before it
+    /// are applied, its fix among those that changed them.
+    credits: Vec<Vec<usize>>,
+    /// Per cause: findings its fix balances alone.
+    alone: Vec<usize>,
+}
+
+/// Placeholder in a cause's sentence for the count phrase, filled once
+/// every fix is known.
+const EXPLAINED: &str = "{explained}";
+
+fn explained_phrase(n: usize, alone: usize) -> String {
+    match (n, alone) {
+        (0, _) => "No imbalance finding balances with this fix".to_string(),
+        (1, 1) => "1 imbalanced reaction balances with this fix".to_string(),
+        (n, a) if n == a => format!("{} imbalanced reactions balance with this fix alone", thousands(n)),
+        (n, a) => format!(
+            "{} imbalanced reactions need this fix ({} balance with it alone, the others once further causes listed here are fixed too)",
+            thousands(n),
+            thousands(a)
+        ),
+    }
+}
+
+/// 2930 → "2,930".
+pub fn thousands(n: usize) -> String {
+    let digits = n.to_string();
+    let mut out = String::new();
+    for (k, ch) in digits.chars().enumerate() {
+        if k > 0 && (digits.len() - k) % 3 == 0 {
+            out.push(',');
+        }
+        out.push(ch);
+    }
+    out
 }
 
 fn open_imbalances<'a>(
@@ -146,6 +204,7 @@ fn open_imbalances<'a>(
                 finding: k,
                 participants: participants.into_iter().filter(|(_, c)| *c != 0).collect(),
                 residual: imbalance_of(f)?,
+                touched: Vec::new(),
             })
         })
         .collect()
@@ -198,33 +257,48 @@ fn add(a: &Delta, b: &Delta, times: i64) -> Delta {
     out
 }
 
-/// Applies per-metabolite corrections to every open finding; the ones that
-/// balance are removed and returned (finding indices).
-fn apply(open: &mut Vec<Open<'_>>, fixes: &BTreeMap<&str, Delta>) -> Vec<usize> {
-    let mut done = Vec::new();
-    open.retain_mut(|o| {
-        let mut touched = false;
-        let mut residual = o.residual.clone();
-        for (m, c) in &o.participants {
-            if let Some(d) = fixes.get(m) {
-                residual = add(&residual, d, *c);
-                touched = true;
+impl Ledger<'_> {
+    /// Applies one cause's per-metabolite corrections to every open
+    /// finding; the ones that balance are credited to it and to every cause
+    /// that changed them before. Returns nothing: the credits are read at
+    /// the end, when later causes may have completed more findings.
+    fn apply(&mut self, fixes: &BTreeMap<&str, Delta>) {
+        let cause = self.credits.len();
+        let mut credits = vec![Vec::new(); cause + 1];
+        let mut alone = 0;
+        self.open.retain_mut(|o| {
+            let mut touched = false;
+            let mut residual = o.residual.clone();
+            for (m, c) in &o.participants {
+                if let Some(d) = fixes.get(m) {
+                    residual = add(&residual, d, *c);
+                    touched = true;
+                }
             }
+            if !touched {
+                return true;
+            }
+            o.touched.push(cause);
+            if residual.is_empty() {
+                if o.touched.len() == 1 {
+                    alone += 1;
+                }
+                for &t in &o.touched {
+                    credits[t].push(o.finding);
+                }
+                false
+            } else {
+                // The fix holds whatever else is wrong: keep it applied.
+                o.residual = residual;
+                true
+            }
+        });
+        self.credits.push(Vec::new());
+        self.alone.push(alone);
+        for (t, found) in credits.into_iter().enumerate() {
+            self.credits[t].extend(found);
         }
-        if !touched {
-            return true;
-        }
-        if residual.is_empty() {
-            done.push(o.finding);
-            false
-        } else {
-            // The fix is right whatever else is wrong: keep it applied.
-            o.residual = residual;
-            true
-        }
-    });
-    done.sort_unstable();
-    done
+    }
 }
 
 fn kinds_of(report: &Report, findings: &[usize]) -> Vec<String> {
@@ -294,9 +368,8 @@ struct Special<'s> {
 }
 
 fn special_cause(
-    report: &Report,
     metabolites: &BTreeMap<&str, &MetaboliteView>,
-    open: &mut Vec<Open<'_>>,
+    open: &mut Ledger<'_>,
     s: Special<'_>,
 ) -> Option<RootCauseView> {
     let mut expected: Delta = parse_formula(s.formula)
@@ -329,7 +402,7 @@ fn special_cause(
         return None;
     }
     let ids: Vec<String> = fixes.keys().map(|m| m.to_string()).collect();
-    let findings = apply(open, &fixes);
+    open.apply(&fixes);
     let charges = wrong_charges
         .iter()
         .map(|z| signed(i64::from(*z)))
@@ -356,20 +429,12 @@ fn special_cause(
             format!("set them to {} and {}", s.formula, signed(s.charge)),
         ),
     };
-    let explained = if findings.is_empty() {
-        "No imbalance finding is explained by it alone, but every ΔrG′° that uses these species rests on them".to_string()
-    } else {
-        format!(
-            "{} reaction{} unbalanced by exactly this difference",
-            findings.len(),
-            if findings.len() == 1 { " is" } else { "s are" }
-        )
-    };
     let sentence = format!(
-        "{explained}: the model's {} species {} {} {has}, yet they are treated as {}; {set}.",
+        "{EXPLAINED}: the model's {} species {} {} {has}, yet {} treated as {}; {set}.",
         s.what,
         id_list(&ids, 6),
         if ids.len() == 1 { "has" } else { "have" },
+        if ids.len() == 1 { "it is" } else { "they are" },
         s.what,
     );
     Some(RootCauseView {
@@ -377,8 +442,8 @@ fn special_cause(
         title,
         sentence,
         metabolites: ids,
-        finding_kinds: kinds_of(report, &findings),
-        findings,
+        finding_kinds: Vec::new(),
+        findings: Vec::new(),
     })
 }
 
@@ -393,9 +458,8 @@ fn cap(s: &str) -> String {
 /// Library matches whose charge and hydrogens fit none of the entry's
 /// species, one cause per library entry.
 fn library_causes(
-    report: &Report,
     metabolites: &BTreeMap<&str, &MetaboliteView>,
-    open: &mut Vec<Open<'_>>,
+    open: &mut Ledger<'_>,
 ) -> Vec<RootCauseView> {
     // library key → (metabolite id, its fix towards the predominant species, text)
     let mut by_key: BTreeMap<&str, Vec<(&str, Delta, String)>> = BTreeMap::new();
@@ -462,7 +526,7 @@ fn library_causes(
             .iter()
             .map(|(id, fix, _)| (*id, fix.clone()))
             .collect();
-        let findings = apply(open, &fixes);
+        open.apply(&fixes);
         let ids: Vec<String> = members.iter().map(|(id, _, _)| id.to_string()).collect();
         let mut parts = members[0].2.split('|');
         let first = parts.next().unwrap_or_default();
@@ -477,25 +541,15 @@ fn library_causes(
         } else {
             String::new()
         };
-        let explained = if findings.is_empty() {
-            String::new()
-        } else {
-            format!(
-                " {} imbalanced reaction{} balance{} once it takes the charge and hydrogens of {main}.",
-                findings.len(),
-                if findings.len() == 1 { "" } else { "s" },
-                if findings.len() == 1 { "s" } else { "" }
-            )
-        };
         out.push(RootCauseView {
             kind: "library-mismatch".into(),
             title: format!("{} does not match the library's {key}", ids[0]),
             sentence: format!(
-                "{first}{others} is matched to the built-in library's {key}, whose species are {species}: none has that charge and hydrogen count, so the match or the model's formula and charge are wrong — check both before trusting its ΔfG′°.{explained}"
+                "{first}{others} is matched to the built-in library's {key}, whose species are {species}: none has that charge and hydrogen count, so the match or the model's formula and charge are wrong — check both before trusting its ΔfG′°. {EXPLAINED} if it takes the charge and hydrogens of {main}, the species that predominates at its compartment's pH."
             ),
             metabolites: ids,
-            finding_kinds: kinds_of(report, &findings),
-            findings,
+            finding_kinds: Vec::new(),
+            findings: Vec::new(),
         });
     }
     out
@@ -503,19 +557,23 @@ fn library_causes(
 
 /// Greedy: the (metabolite, change) that balances most open findings.
 fn one_metabolite_causes(
-    report: &Report,
     metabolites: &BTreeMap<&str, &MetaboliteView>,
-    open: &mut Vec<Open<'_>>,
+    open: &mut Ledger<'_>,
 ) -> Vec<RootCauseView> {
+    // Ordinary metabolites whose formula and charge are known.
+    let known: BTreeMap<&str, Delta> = metabolites
+        .iter()
+        .filter(|(_, v)| v.special.is_empty())
+        .filter_map(|(id, v)| Some((*id, composition(v)?)))
+        .collect();
     let mut out = Vec::new();
     while out.len() < MAX_GENERIC {
         let mut counts: BTreeMap<(&str, Delta), usize> = BTreeMap::new();
-        for o in open.iter() {
+        for o in &open.open {
             for (&m, &c) in &o.participants {
-                let ordinary = metabolites.get(m).is_some_and(|v| v.special.is_empty());
-                if !ordinary {
+                let Some(now) = known.get(m) else {
                     continue;
-                }
+                };
                 // Change of m that balances: residual + c·δ = 0.
                 let divisible = o.residual.values().all(|n| n % c == 0);
                 if !divisible {
@@ -526,6 +584,11 @@ fn one_metabolite_causes(
                     .iter()
                     .map(|(k, n)| (k.clone(), -n / c))
                     .collect();
+                // A formula cannot lose atoms it does not have.
+                let fixed = add(now, &delta, 1);
+                if fixed.iter().any(|(k, n)| k != CHARGE && *n < 0) {
+                    continue;
+                }
                 *counts.entry((m, delta)).or_default() += 1;
             }
         }
@@ -540,9 +603,8 @@ fn one_metabolite_causes(
             break;
         }
         let fixes = BTreeMap::from([(m, delta.clone())]);
-        let findings = apply(open, &fixes);
-        let view = metabolites[m];
-        let now = composition(view).unwrap_or_default();
+        open.apply(&fixes);
+        let now = known[m].clone();
         let fixed = add(&now, &delta, 1);
         let charge_now = now.get(CHARGE).copied().unwrap_or(0);
         let charge_fixed = fixed.get(CHARGE).copied().unwrap_or(0);
@@ -569,13 +631,10 @@ fn one_metabolite_causes(
         out.push(RootCauseView {
             kind: "one-metabolite".into(),
             title: format!("{m}: {change}?"),
-            sentence: format!(
-                "{} imbalanced reactions would all balance if {m} had {change}: check its formula and charge.",
-                findings.len()
-            ),
+            sentence: format!("{EXPLAINED} if {m} had {change}: check its formula and charge."),
             metabolites: vec![m.to_string()],
-            finding_kinds: kinds_of(report, &findings),
-            findings,
+            finding_kinds: Vec::new(),
+            findings: Vec::new(),
         });
     }
     out

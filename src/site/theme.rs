@@ -25,6 +25,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "macros.html",
     "index.html",
     "findings.html",
+    "findings_list.html",
     "coverage.html",
     "reactions.html",
     "reaction.html",
@@ -42,6 +43,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "style.css",
     "table.js",
     "map.js",
+    "findings.js",
 ];
 
 /// The theme in use: file name (with `/` between folders) → content.
