@@ -121,8 +121,10 @@ pub fn percent_text(part: usize, whole: usize) -> String {
 }
 
 fn plural(n: usize, one: &str, many: &str) -> String {
-    format!("{n} {}", if n == 1 { one } else { many })
+    format!("{} {}", thousands(n), if n == 1 { one } else { many })
 }
+
+use super::root_causes::thousands;
 
 fn sentence(
     judged: usize,
@@ -155,10 +157,15 @@ fn sentence(
         ),
     };
     let unjudged = internal - judged;
-    let mut s = format!("Judged {judged} of {internal} internal reactions ({percent}): {verdict}");
+    let mut s = format!(
+        "Judged {} of {} internal reactions ({percent}): {verdict}",
+        thousands(judged),
+        thousands(internal)
+    );
     if unjudged > 0 {
         s.push_str(&format!(
-            "; {unjudged} could not be judged for lack of ΔG′° data — see what is missing"
+            "; {} could not be judged for lack of ΔG′° data — see what is missing",
+            thousands(unjudged)
         ));
     }
     if state == HeadlineState::NotAssessed {
@@ -176,8 +183,8 @@ pub fn below_minimum(h: &HeadlineView, min_percent: f64) -> Option<String> {
             "coverage {} is below --min-coverage {} %: {} of {} internal reactions judged",
             h.percent_text,
             trim_number(min_percent),
-            h.judged,
-            h.internal_reactions
+            thousands(h.judged),
+            thousands(h.internal_reactions)
         )
     })
 }
@@ -229,6 +236,9 @@ mod tests {
             s,
             "Judged 74 of 74 internal reactions (100 %): 2 errors and 1 warning to review."
         );
+        // Recon3D's figures (this build): thousands separated.
+        let s = sentence(3434, 8791, "39 %", HeadlineState::PartlyAssessed, 4, 4230);
+        assert!(s.starts_with("Judged 3,434 of 8,791 internal reactions (39 %): 4 errors and 4,230 warnings to review; 5,357 could not be judged"), "{s}");
     }
 
     #[test]

@@ -159,8 +159,12 @@ fn explained_phrase(n: usize, alone: usize) -> String {
         (0, _) => "No imbalance finding balances with this fix".to_string(),
         (1, 1) => "1 imbalanced reaction balances with this fix".to_string(),
         (n, a) if n == a => format!("{} imbalanced reactions balance with this fix alone", thousands(n)),
+        (n, 0) => format!(
+            "{} imbalanced reactions balance with this fix once other causes listed here are fixed too",
+            thousands(n)
+        ),
         (n, a) => format!(
-            "{} imbalanced reactions need this fix ({} balance with it alone, the others once further causes listed here are fixed too)",
+            "{} imbalanced reactions need this fix ({} balance with it alone, the others once other causes listed here are fixed too)",
             thousands(n),
             thousands(a)
         ),
@@ -715,4 +719,44 @@ fn shared_range_causes(
         });
     }
     out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn counts_read_as_printed() {
+        // Recon3D's figures in this build (tests/root_causes.rs): 2,721
+        // findings need the H⁺ fix, 2,096 balance with it alone.
+        assert_eq!(thousands(2930), "2,930");
+        assert_eq!(thousands(999), "999");
+        assert_eq!(thousands(1_000_000), "1,000,000");
+        assert_eq!(
+            explained_phrase(2721, 2096),
+            "2,721 imbalanced reactions need this fix (2,096 balance with it alone, the others once other causes listed here are fixed too)"
+        );
+        assert_eq!(
+            explained_phrase(29, 0),
+            "29 imbalanced reactions balance with this fix once other causes listed here are fixed too"
+        );
+        assert_eq!(
+            explained_phrase(0, 0),
+            "No imbalance finding balances with this fix"
+        );
+    }
+
+    #[test]
+    fn formulas_in_hill_order() {
+        let d: Delta = [("C", 3), ("H", 3), ("O", 3), (CHARGE, -1)]
+            .into_iter()
+            .map(|(k, n)| (k.to_string(), n))
+            .collect();
+        assert_eq!(formula_text(&d), "C3H3O3");
+        let water: Delta = [("H", 2), ("O", 1)]
+            .into_iter()
+            .map(|(k, n)| (k.to_string(), n))
+            .collect();
+        assert_eq!(formula_text(&water), "H2O");
+    }
 }

@@ -75,6 +75,8 @@ pub struct CauseSummary {
     pub title: String,
     pub sentence: String,
     pub count: usize,
+    /// `count` with thousands separated, as printed.
+    pub count_text: String,
     pub metabolites: Vec<String>,
 }
 
@@ -103,6 +105,7 @@ pub fn causes(report: &Report) -> Vec<CauseSummary> {
             title: c.title.clone(),
             sentence: c.sentence.clone(),
             count: c.findings.len(),
+            count_text: crate::report::root_causes::thousands(c.findings.len()),
             metabolites: c.metabolites.clone(),
         })
         .collect()
