@@ -16,6 +16,7 @@ pub mod loops;
 pub mod lp;
 pub mod model;
 pub mod network;
+pub mod number_text;
 pub mod outcome;
 pub mod pipeline;
 pub mod progress;

@@ -141,6 +141,10 @@ enum Command {
         /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
         #[arg(long = "data", value_name = "TABLE")]
         data: Vec<PathBuf>,
+        /// Exit with 1 when fewer than this percentage of internal
+        /// reactions could be judged (have a ΔG′° estimate), e.g. 50.
+        #[arg(long, value_name = "PERCENT", value_parser = gibbsite::report::headline::parse_min_coverage)]
+        min_coverage: Option<f64>,
         /// Render with the default theme even if the project has its own
         /// (a project theme is trusted code: use this for third-party models).
         #[arg(long)]
@@ -186,6 +190,10 @@ enum Command {
         /// id or cross-reference; repeatable, applied after gibbsite.yaml's.
         #[arg(long = "data", value_name = "TABLE")]
         data: Vec<PathBuf>,
+        /// Exit with 1 when fewer than this percentage of internal
+        /// reactions could be judged (have a ΔG′° estimate), e.g. 50.
+        #[arg(long, value_name = "PERCENT", value_parser = gibbsite::report::headline::parse_min_coverage)]
+        min_coverage: Option<f64>,
         /// What to print on standard output.
         #[arg(long, value_enum, default_value_t = Format::Text)]
         format: Format,
@@ -327,6 +335,7 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             baseline,
             data,
             no_project_theme,
+            min_coverage,
             confine,
             findings,
         } => {
@@ -336,11 +345,15 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             let baseline = baseline.transpose()?;
             let loaded = load(&project, &data, &confine.options(), &progress)?;
             let mut report = pipeline::report_with(&loaded, &progress);
-            let outcome = findings.settle(
+            let mut outcome = findings.settle(
                 &mut report,
                 fail_on,
                 baseline.as_ref().map(|(p, b)| (*p, b)),
             )?;
+            outcome.require_coverage(&report, min_coverage);
+            if let Some(short) = &outcome.coverage_short {
+                eprintln!("{short}");
+            }
             let out = out_dir.unwrap_or_else(|| default_output(&project));
             let theme = if no_project_theme {
                 None
@@ -391,6 +404,7 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             baseline,
             format,
             data,
+            min_coverage,
             confine,
             findings,
             sarif_root,
@@ -402,11 +416,15 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             let baseline = baseline.transpose()?;
             let loaded = load(&project, &data, &confine.options(), &progress)?;
             let mut report = pipeline::report_with(&loaded, &progress);
-            let outcome = findings.settle(
+            let mut outcome = findings.settle(
                 &mut report,
                 fail_on,
                 baseline.as_ref().map(|(p, b)| (*p, b)),
             )?;
+            outcome.require_coverage(&report, min_coverage);
+            if let Some(short) = &outcome.coverage_short {
+                eprintln!("{short}");
+            }
             match format {
                 Format::Text => print!(
                     "{}",
@@ -424,7 +442,7 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
                 }
                 Format::Markdown => print!(
                     "{}",
-                    gibbsite::report::summary::to_markdown(&report, &outcome, &[])
+                    gibbsite::report::summary::to_markdown(&report, &outcome)
                 ),
             }
             // Text and Markdown end with the pass/fail line themselves.

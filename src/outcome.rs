@@ -42,9 +42,15 @@ impl Coverage {
     }
 }
 
-/// The coverage figure of a report: from its coverage view, else from the
-/// summary's counts.
+/// The coverage figure of a report: from its headline (the figure the site
+/// opens with), else its coverage view, else the summary's counts.
 pub fn coverage(report: &Report) -> Option<Coverage> {
+    if let Some(h) = &report.headline {
+        return Some(Coverage {
+            judged: h.judged,
+            internal: h.internal_reactions,
+        });
+    }
     match &report.coverage {
         Some(c) => Some(Coverage {
             judged: c.with_energy,
@@ -74,6 +80,8 @@ pub struct Outcome {
     /// With a baseline: how many of the report's findings it already had.
     pub known_from_baseline: Option<usize>,
     pub coverage: Option<Coverage>,
+    /// Set when coverage is below `--min-coverage`: the line saying so.
+    pub coverage_short: Option<String>,
     pub failing: bool,
 }
 
@@ -99,11 +107,27 @@ impl Outcome {
             counted,
             known_from_baseline: baseline.map(|_| report.findings.len() - counted_findings.len()),
             coverage: coverage(report),
+            coverage_short: None,
             failing,
         }
     }
 
-    /// 0 = pass, 1 = a counted finding at or above the fail level.
+    /// Fail the run too when fewer internal reactions than `min_percent`
+    /// could be judged, so "no error" on a barely covered model does not pass.
+    pub fn require_coverage(&mut self, report: &Report, min_percent: Option<f64>) {
+        let Some(min) = min_percent else { return };
+        let headline = match &report.headline {
+            Some(h) => h.clone(),
+            None => crate::report::headline::headline(report),
+        };
+        if let Some(line) = crate::report::headline::below_minimum(&headline, min) {
+            self.coverage_short = Some(line);
+            self.failing = true;
+        }
+    }
+
+    /// 0 = pass, 1 = a counted finding at or above the fail level (or
+    /// coverage below `--min-coverage`).
     pub fn exit_code(&self) -> u8 {
         u8::from(self.failing)
     }
@@ -141,6 +165,10 @@ impl Outcome {
         if let Some(cov) = self.coverage {
             line.push_str("; ");
             line.push_str(&cov.phrase());
+        }
+        if let Some(short) = &self.coverage_short {
+            line.push_str("; ");
+            line.push_str(short);
         }
         line
     }

@@ -222,11 +222,16 @@ fn markdown_summary_counts_kinds_and_shows_ten_examples_per_kind() {
     report.summary.notes += 12;
     let outcome =
         gibbsite::outcome::Outcome::decide(&report, gibbsite::collection::FailLevel::Error, None);
-    let causes = [summary::RootCauseLine {
-        cause: "protons `h_c` have charge 0".into(),
-        findings: 7,
+    // A root cause whose title carries a hostile model id.
+    report.root_causes = vec![gibbsite::report::RootCauseView {
+        kind: "one-metabolite".into(),
+        title: "h_c|<b>: charge 0?".into(),
+        sentence: "7 findings would balance if h_c had charge +1.".into(),
+        metabolites: vec!["h_c|<b>".into()],
+        findings: (0..7).collect(),
+        finding_kinds: vec!["charge-imbalance".into()],
     }];
-    let md = summary::to_markdown(&report, &outcome, &causes);
+    let md = summary::to_markdown(&report, &outcome);
     assert!(
         md.contains("**FAIL**: 5 errors, 5 warnings, 16 notes (fails on errors); judged 24 of 25 internal reactions (96 %)"),
         "{md}"
@@ -237,7 +242,7 @@ fn markdown_summary_counts_kinds_and_shows_ten_examples_per_kind() {
     );
     assert!(md.contains("| error | `scenario-contradiction` | 3 | A step of a flux scenario runs against its ΔG'. |"), "{md}");
     assert!(md.contains("| note | `one-way-reversible` | 14 |"), "{md}");
-    assert!(md.contains("| protons `h_c` have charge 0 | 7 |"), "{md}");
+    assert!(md.contains("| h\\_c\\|&lt;b&gt;: charge 0? | 7 |"), "{md}");
     // The kind's section: ten rows, then the rest counted.
     let at = md.find("### note `one-way-reversible` (14)").unwrap();
     let section = &md[at..md[at..].find("\n### ").map_or(md.len(), |e| at + e)];
@@ -249,8 +254,9 @@ fn markdown_summary_counts_kinds_and_shows_ten_examples_per_kind() {
     );
     assert!(md.contains("a \\| b &lt;script&gt;"), "{md}");
     assert!(md.contains("expert review"));
-    // No root causes given: no section.
-    assert!(!summary::to_markdown(&report, &outcome, &[]).contains("### Root causes"));
+    // No root causes: no section.
+    report.root_causes.clear();
+    assert!(!summary::to_markdown(&report, &outcome).contains("### Root causes"));
 }
 
 fn sarif_schema_validator() -> jsonschema::Validator {

@@ -685,6 +685,8 @@ fn fixture() -> Report {
         loops: Some(loops_view()),
         joint_scenarios: Vec::new(),
         coverage: None,
+        headline: None,
+        root_causes: Vec::new(),
     }
 }
 
@@ -763,6 +765,10 @@ fn all_expected_files_exist_and_nothing_else() {
         "assets/map.js",
         "assets/search.js",
         "assets/search-index.js",
+        "assets/findings.js",
+        // The full list of findings and the filters' data.
+        "findings/list-1.html",
+        "findings/data.js",
         // The maps' shared stylesheet and key.
         "assets/network-map.css",
         "assets/network-map-legend.svg",
@@ -922,8 +928,10 @@ fn model_strings_are_escaped_everywhere() {
             !html.contains("<script>alert"),
             "{name} contains the note's script"
         );
-        // Our own script tags (tables, map zoom, search) are the only ones.
-        assert_eq!(html.matches("<script").count(), 3, "{name}");
+        // Our own script tags (tables, map zoom, search; on findings.html
+        // also the filter data and script) are the only ones.
+        let ours = if name == "findings.html" { 5 } else { 3 };
+        assert_eq!(html.matches("<script").count(), ours, "{name}");
         assert!(html.contains(CAUTION), "{name} lacks the caution");
     }
     for name in tree.keys() {
@@ -967,23 +975,33 @@ fn overview_lists_errors_and_warnings_with_counts_and_coverage() {
     let out = tmp.path().join("site");
     render_fixture(&out);
     let index = fs::read_to_string(out.join("index.html")).unwrap();
-    assert!(index.contains("ATPH runs backward in scenario growth"));
-    assert!(index.contains("Reaction &lt;b&gt;x&lt;&#x2f;b&gt; is not mass balanced."));
-    assert!(
-        !index.contains("NOTE-ONLY-MESSAGE"),
-        "notes belong on the findings page"
-    );
+    // The overview leads with the verdict sentence, not with counts, and
+    // lists no finding rows (they live on the findings pages).
+    let verdict = index.find("id=\"verdict\"").expect("verdict section");
+    let fix_first = index.find("id=\"fix-first\"").expect("fix-first section");
+    assert!(verdict < fix_first);
+    assert!(!index.contains("class=\"cards\""));
+    assert!(!index.contains("class=\"meter\""));
+    assert!(!index.contains("NOTE-ONLY-MESSAGE"));
+    assert!(!index.contains("ATPH runs backward in scenario growth"));
+    let list = fs::read_to_string(out.join("findings/list-1.html")).unwrap();
+    assert!(list.contains("ATPH runs backward in scenario growth"));
+    assert!(list.contains("Reaction &lt;b&gt;x&lt;&#x2f;b&gt; is not mass balanced."));
     let findings = fs::read_to_string(out.join("findings.html")).unwrap();
     assert!(findings.contains("NOTE-ONLY-MESSAGE"));
     // Severity shown by icon and word, not by colour alone.
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">✖</span> error</span>"));
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">▲</span> warning</span>"));
     assert!(findings.contains("<span class=\"icon\" aria-hidden=\"true\">●</span> note</span>"));
-    // Coverage 3 of 4 reactions and 5 of 6 metabolites.
+    // Coverage 3 of 4 internal reactions (the fixture has 3 errors and 2
+    // warnings), computed by the site when the report has no headline.
     assert!(
-        index.contains("75.0 %") && index.contains("83.3 %"),
+        text_of(&index).contains(
+            "Judged 3 of 4 internal reactions (75 %): 3 errors and 2 warnings to review; 1 could not be judged"
+        ),
         "{index}"
     );
+    assert!(text_of(&index).contains("5 of 6 metabolites have a ΔfG′°"));
     // Scenario table row.
     assert!(index.contains("id=\"scenario-growth\""));
     // The finding's subject without a page (a loop id) is plain text.
@@ -1099,7 +1117,7 @@ fn user_theme_replaces_files_one_by_one() {
     // keep their default templates.
     assert!(note.contains("<nav aria-label=\"Sections\">"));
     let index = fs::read_to_string(out.join("index.html")).unwrap();
-    assert!(index.contains("Findings at a glance"));
+    assert!(index.contains("What to fix first"));
 }
 
 #[test]
@@ -1265,7 +1283,7 @@ fn an_empty_report_renders_without_notes_pages() {
     let tree = read_tree(&out);
     assert!(!tree.keys().any(|k| k.starts_with("notes/")));
     let index = String::from_utf8(tree["index.html"].clone()).unwrap();
-    assert!(index.contains("No errors or warnings."));
+    assert!(index.contains("Nothing: no finding."));
     assert!(index.contains("The project defines no flux scenarios."));
     assert!(!index.contains("notes/index.html"), "no dead Notes link");
 }
@@ -1700,14 +1718,16 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
     check_links(&tree);
 
     // Errors and warnings of the demo (see tests/demo.rs for why each is
-    // there), in the overview's table: severity, kind, subject, scenario.
+    // there), in the full list: severity, kind, subject, scenario.
     // The loop's id comes from its member set (loops::ids).
     let loop_id = gibbsite::loops::ids::member_set_id("loop", ["PEPS", "PYK"]);
     let loop_subjects = format!("{loop_id}, PYK, PEPS");
     let index = String::from_utf8(tree["index.html"].clone()).unwrap();
-    let rows = table_rows(&index, "data findings");
+    let list = String::from_utf8(tree["findings/list-1.html"].clone()).unwrap();
+    let rows = table_rows(&list, "data findings");
     let listed: Vec<[&str; 4]> = rows[1..]
         .iter()
+        .filter(|r| r[0] != "● note")
         .map(|r| [r[0].as_str(), r[1].as_str(), r[2].as_str(), r[3].as_str()])
         .collect();
     assert_eq!(
@@ -1741,7 +1761,9 @@ fn demo_site_links_resolve_and_the_overview_lists_its_problems() {
 
     // The demo's one loop (PYK and PEPS, each other's reverse): its subject
     // links to its page, the loop index lists it with the report's numbers.
-    assert!(index.contains(&format!("<a href=\"loops/{loop_id}.html\">{loop_id}</a>")));
+    assert!(list.contains(&format!(
+        "<a href=\"../loops/{loop_id}.html\">{loop_id}</a>"
+    )));
     let view = &report
         .loops
         .as_ref()
@@ -2106,8 +2128,8 @@ fn finding_subjects_link_to_loop_pages_and_reactions_name_their_loops() {
     assert!(findings.contains("<a href=\"loops/cycle-atp-c.html\">atp in c</a>"));
     // An id without a page stays plain text.
     assert!(findings.contains("<code>loop-1</code>"));
-    let index = String::from_utf8(tree["index.html"].clone()).unwrap();
-    assert!(index.contains("<a href=\"loops/loop-10.html\">loop-10</a>"));
+    let list = String::from_utf8(tree["findings/list-1.html"].clone()).unwrap();
+    assert!(list.contains("<a href=\"../loops/loop-10.html\">loop-10</a>"));
     // Reaction pages: the directions it can loop in and its loops.
     let hat = String::from_utf8(tree["reactions/HAT.html"].clone()).unwrap();
     assert!(text_of(&hat).contains(

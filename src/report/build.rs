@@ -64,7 +64,7 @@ pub fn build(
             })
             .collect(),
     };
-    Report {
+    let mut report = Report {
         schema_version: REPORT_SCHEMA_VERSION,
         tool: ToolInfo {
             name: "gibbsite".into(),
@@ -126,7 +126,12 @@ pub fn build(
             },
         ),
         coverage: Some(super::coverage::coverage(analysis)),
-    }
+        headline: None,
+        root_causes: Vec::new(),
+    };
+    report.headline = Some(super::headline::headline(&report));
+    report.root_causes = super::root_causes::root_causes(&report);
+    report
 }
 
 /// SOURCE_DATE_EPOCH as seconds: `Ok(None)` when unset or empty, an error

@@ -280,6 +280,9 @@ impl KindFilter {
                 .sum();
         }
         report.summary.by_kind = by_kind;
+        // The headline counts errors and root causes point at findings.
+        report.headline = Some(super::headline::headline(report));
+        report.root_causes = super::root_causes::root_causes(report);
     }
 }
 

@@ -8,8 +8,10 @@ use std::collections::BTreeMap;
 pub mod baseline;
 pub mod build;
 pub mod coverage;
+pub mod headline;
 pub mod json;
 pub mod kinds;
+pub mod root_causes;
 pub mod sarif;
 pub mod scenario_build;
 pub mod scenario_view;
@@ -17,6 +19,8 @@ pub mod summary;
 pub mod text;
 
 pub use crate::finding::{Finding, Severity, Verdict};
+pub use headline::{HeadlineState, HeadlineView};
+pub use root_causes::RootCauseView;
 pub use scenario_view::*;
 
 /// Version of the `report.json` shape; bump on breaking changes.
@@ -46,6 +50,14 @@ pub struct Report {
     /// How far the ΔG data reach (see `report::coverage`).
     #[serde(default)]
     pub coverage: Option<CoverageView>,
+    /// Judged internal reactions and the sentence joining verdict and
+    /// coverage (see `report::headline`).
+    #[serde(default)]
+    pub headline: Option<HeadlineView>,
+    /// Findings sharing one cause, most explained first (see
+    /// `report::root_causes`).
+    #[serde(default)]
+    pub root_causes: Vec<RootCauseView>,
 }
 
 /// Which internal reactions have a ΔrG'° (and so a direction verdict).

@@ -15,17 +15,13 @@ use std::fmt::Write;
 /// Example rows shown per kind; the rest are in the report.
 pub const EXAMPLES_PER_KIND: usize = 10;
 
-/// One root cause for the summary: what explains a number of findings.
-#[derive(Debug, Clone, PartialEq)]
-pub struct RootCauseLine {
-    /// Our sentence (model ids in `backticks` become code spans).
-    pub cause: String,
-    pub findings: usize,
-}
+/// Root causes listed in the summary (the most explaining first).
+pub const ROOT_CAUSES_SHOWN: usize = 5;
 
-/// The pass/fail line, coverage, counts by kind, root causes (when given),
-/// at most [`EXAMPLES_PER_KIND`] example rows per kind, and the caution.
-pub fn to_markdown(report: &Report, outcome: &Outcome, root_causes: &[RootCauseLine]) -> String {
+/// The pass/fail line, coverage, counts by kind, the report's root causes
+/// (when it has any), at most [`EXAMPLES_PER_KIND`] example rows per kind,
+/// and the caution.
+pub fn to_markdown(report: &Report, outcome: &Outcome) -> String {
     let s = &report.summary;
     let mut out = String::new();
     let _ = writeln!(out, "## gibbsite: {}\n", text(&report.project.title));
@@ -64,10 +60,15 @@ pub fn to_markdown(report: &Report, outcome: &Outcome, root_causes: &[RootCauseL
         }
         out.push('\n');
     }
-    if !root_causes.is_empty() {
+    if !report.root_causes.is_empty() {
         out.push_str("### Root causes\n\n| cause | findings it explains |\n|---|---:|\n");
-        for r in root_causes {
-            let _ = writeln!(out, "| {} | {} |", message(&r.cause), r.findings);
+        for r in report.root_causes.iter().take(ROOT_CAUSES_SHOWN) {
+            // The title holds model ids: written inert.
+            let _ = writeln!(out, "| {} | {} |", text(&r.title), r.explains());
+        }
+        let more = report.root_causes.len().saturating_sub(ROOT_CAUSES_SHOWN);
+        if more > 0 {
+            let _ = writeln!(out, "\n… and {more} more on the site's findings page.");
         }
         out.push('\n');
     }

@@ -27,11 +27,13 @@ pub mod coverage;
 pub mod derived;
 pub mod energy_cycle_pages;
 pub mod evidence;
+pub mod findings_pages;
 pub mod format;
 pub mod lists;
 pub mod loop_map;
 pub mod map;
 pub mod markdown;
+pub mod overview;
 pub mod scenario_svg;
 pub mod search;
 pub mod species_chart;
@@ -202,6 +204,11 @@ fn sorted_report(report: &Report) -> Report {
                 &b.message,
             ))
     });
+    // Cause → finding indices follow the order just set.
+    r.root_causes = crate::report::root_causes::root_causes(&r);
+    if r.headline.is_none() {
+        r.headline = Some(crate::report::headline::headline(&r));
+    }
     r.compartments.sort_by(|a, b| a.id.cmp(&b.id));
     r.scenarios.sort_by(|a, b| a.id.cmp(&b.id));
     r.metabolites.sort_by(|a, b| a.id.cmp(&b.id));
@@ -341,8 +348,10 @@ struct SubjectLink<'a> {
 
 #[derive(Serialize)]
 struct FindingEntry<'a> {
-    /// Fragment id on findings.html.
+    /// Fragment id on its page of the full list.
     anchor: String,
+    /// That page's file name in `findings/` (`list-N.html`).
+    list: String,
     #[serde(flatten)]
     finding: &'a Finding,
     links: Vec<SubjectLink<'a>>,
@@ -476,6 +485,7 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
         }
         findings.push(FindingEntry {
             anchor: format!("finding-{}", index + 1),
+            list: findings_pages::list_page(index),
             finding,
             links,
         });
@@ -598,14 +608,19 @@ impl<'r> Pages<'r> {
                 "index.html".into(),
                 "overview",
                 "Overview",
-                context! {},
+                context! {
+                    causes => Value::from_serialize(findings_pages::causes(report)),
+                    kinds => Value::from_serialize(findings_pages::kind_counts(report)),
+                    headline_html => overview::headline_html(report).map(Value::from_safe_string),
+                    fix_first => findings_pages::FIX_FIRST,
+                },
             ),
             page(
                 "findings.html",
                 "findings.html".into(),
                 "findings",
                 "Findings",
-                context! {},
+                context! { grouped => Value::from_serialize(findings_pages::grouped(report)) },
             ),
             page(
                 "kinds.html",
@@ -622,6 +637,16 @@ impl<'r> Pages<'r> {
                 context! { missing_csv => coverage::MISSING_CSV },
             ),
         ];
+        for list in findings_pages::list(report) {
+            let title = format!("All findings, page {} of {}", list.number, list.pages);
+            let path = format!("findings/list-{}.html", list.number);
+            let extra = context! { list => Value::from_serialize(&list) };
+            out.push(page("findings_list.html", path, "findings", &title, extra));
+        }
+        files.push((
+            findings_pages::DATA_JS.into(),
+            findings_pages::data_js(report),
+        ));
         for (template, dir, title, total) in [
             (
                 "reactions.html",

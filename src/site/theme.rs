@@ -26,6 +26,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "index.html",
     "findings.html",
     "kinds.html",
+    "findings_list.html",
     "coverage.html",
     "reactions.html",
     "reaction.html",
@@ -48,6 +49,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "map.js",
     "search.js",
     "pager.html",
+    "findings.js",
 ];
 
 /// The theme in use: file name (with `/` between folders) → content.
