@@ -14,6 +14,7 @@ mod currency;
 mod egc;
 mod elementary;
 mod energy;
+mod exact;
 mod network;
 mod nullspace;
 mod prune;
@@ -89,6 +90,9 @@ pub struct LoopStats {
     pub loop_lp_solves: usize,
     /// Loops read off the compressed structure without an LP.
     pub direct_loops: usize,
+    /// Loops whose LP answer failed verification and were recomputed
+    /// exactly (rational arithmetic) on their support.
+    pub exact_repairs: usize,
 }
 
 /// Everything [`analyse_loops`] found.
@@ -187,6 +191,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
         direction_lps: capability.direction_lps,
         loop_lp_solves: 0,
         direct_loops: 0,
+        exact_repairs: 0,
     };
     let mut analysis = LoopAnalysis {
         model: model.id.clone(),
@@ -223,6 +228,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
     })?;
     stats.loop_lp_solves = set.lp_solves;
     stats.direct_loops = set.direct_loops;
+    stats.exact_repairs = set.exact_repairs;
     analysis.stats = stats;
     analysis.loops_truncated = set.truncated;
     analysis.uncovered_reactions = set
@@ -237,6 +243,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
             analysis.uncovered_reactions.join(", ")
         ));
     }
+    analysis.problems.extend(set.dropped.iter().cloned());
     for cycle in &set.loops {
         if !cycle.verified {
             analysis.problems.push(format!(
