@@ -64,6 +64,9 @@ fn main() {
     let dir = models_dir();
     let named: Vec<PathBuf> = args
         .iter()
+        .enumerate()
+        .filter(|&(i, _)| i == 0 || args[i - 1] != "--scale")
+        .map(|(_, a)| a)
         .filter(|a| a.ends_with(".xml") || a.ends_with(".xml.gz"))
         .map(PathBuf::from)
         .collect();
