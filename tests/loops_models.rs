@@ -452,3 +452,56 @@ fn recon3d_loops_cover_the_set_and_check_back() {
         analysis.stats.loop_lp_solves
     ));
 }
+
+// iLB1027_lipid (BiGG; the diatom model of Levering et al., PLoS ONE 2016,
+// from memory): thousands of loops, some of which the floating-point simplex
+// answers only roughly (repaired exactly on their support). Opt-in (seconds
+// in release, many minutes in a debug build): every listed loop is a
+// verified elementary steady state and together they cover the loop-capable
+// set.
+#[test]
+#[ignore]
+fn ilb1027_every_listed_loop_verifies() {
+    let Some(model) = shared_model("iLB1027_lipid.xml.gz") else {
+        return;
+    };
+    let analysis = analyse_loops(&model, &LoopOptions::default()).unwrap();
+    for l in analysis
+        .loops
+        .iter()
+        .filter(|l| !l.verified || !l.elementary)
+    {
+        let members: Vec<(&str, f64)> = l
+            .members
+            .iter()
+            .map(|m| (m.reaction.as_str(), m.coefficient))
+            .collect();
+        visible(&format!("{} residual {:e}: {members:?}", l.id, l.residual));
+    }
+    visible(&format!(
+        "iLB1027_lipid: {} loops, {} repaired exactly",
+        analysis.loops.len(),
+        analysis.stats.exact_repairs
+    ));
+    assert_loops_sound(&analysis);
+}
+
+// Opt-in (thousands of warm-started LPs on 4 456 reactions): iLB1027_lipid's
+// loop-capable set equals the one flux variability (as feasibility) gives.
+#[test]
+#[ignore]
+fn ilb1027_loop_set_matches_flux_variability() {
+    let Some(model) = shared_model("iLB1027_lipid.xml.gz") else {
+        return;
+    };
+    let options = LoopOptions {
+        find_loops: false,
+        max_loops: None,
+    };
+    let analysis = analyse_loops(&model, &options).unwrap();
+    let mut ours = capable(&analysis);
+    ours.sort();
+    let mut fva = capable_by_feasibility(&model);
+    fva.sort();
+    assert_eq!(ours, fva);
+}

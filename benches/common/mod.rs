@@ -5,6 +5,7 @@ use std::path::{Path, PathBuf};
 /// The SBML files named on the command line, else every `*.xml` /
 /// `*.xml.gz` in `$GIBBSITE_MODELS_DIR` or `../shared/models`, smallest
 /// first. `None` (after saying so) when there is nothing to measure.
+#[allow(dead_code)] // not every benchmark takes its models this way
 pub fn model_paths(args: &[String]) -> Option<Vec<PathBuf>> {
     let is_model = |name: &str| name.ends_with(".xml") || name.ends_with(".xml.gz");
     let mut paths: Vec<PathBuf> = args

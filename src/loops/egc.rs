@@ -21,6 +21,7 @@ use super::tolerance::FLUX_NONZERO;
 use super::LoopError;
 use crate::lp::{LinearProgram, LpError, Relation, Sense, Var};
 use crate::model::Model;
+use rayon::prelude::*;
 use serde::Serialize;
 
 /// Outcome of one dissipation test.
@@ -72,37 +73,42 @@ pub fn energy_generating_cycles(
         &mut network.allowed,
     );
     let joint = capable_directions(&network.columns, &network.allowed).map_err(error)?;
-    let mut results = Vec::with_capacity(tests.len());
-    for (test, &d) in tests.into_iter().zip(&dissipations) {
-        let mut allowed = joint.capable.clone();
-        for &other in &dissipations {
-            if other != d {
-                allowed[other] = Directions::NONE;
+    // Each test is its own LP from scratch: they run on every core, and
+    // results are collected in test order.
+    let results = tests
+        .into_par_iter()
+        .zip(dissipations.par_iter())
+        .map(|(test, &d)| {
+            let mut allowed = joint.capable.clone();
+            for &other in &dissipations {
+                if other != d {
+                    allowed[other] = Directions::NONE;
+                }
             }
-        }
-        let example = if allowed[d].forward {
-            minimal_flux_through(&network.columns, &allowed, network.metabolite_count, d)
-                .map_err(error)?
-        } else {
-            None
-        };
-        let example: Vec<LoopMember> = example
-            .unwrap_or_default()
-            .into_iter()
-            .filter(|&(r, _)| r != d)
-            .map(|(r, coefficient)| LoopMember {
-                reaction: model.reactions[r].id.clone(),
-                index: r,
-                coefficient,
+            let example = if allowed[d].forward {
+                minimal_flux_through(&network.columns, &allowed, network.metabolite_count, d)
+                    .map_err(error)?
+            } else {
+                None
+            };
+            let example: Vec<LoopMember> = example
+                .unwrap_or_default()
+                .into_iter()
+                .filter(|&(r, _)| r != d)
+                .map(|(r, coefficient)| LoopMember {
+                    reaction: model.reactions[r].id.clone(),
+                    index: r,
+                    coefficient,
+                })
+                .collect();
+            Ok(EnergyCycleResult {
+                cycle_exists: !example.is_empty(),
+                trivial: example.len() == 1,
+                test,
+                example,
             })
-            .collect();
-        results.push(EnergyCycleResult {
-            cycle_exists: !example.is_empty(),
-            trivial: example.len() == 1,
-            test,
-            example,
-        });
-    }
+        })
+        .collect::<Result<Vec<_>, LoopError>>()?;
     Ok(EnergyCycleAnalysis {
         results,
         not_testable: plan.not_testable,

@@ -13,6 +13,7 @@
 //! columns have a one-dimensional null space (elementary).
 
 use super::compress::{compress, Merged};
+use super::exact;
 use super::network::Directions;
 use super::nullspace::Elimination;
 use super::tolerance::{
@@ -64,6 +65,10 @@ pub struct LoopSet {
     pub lp_solves: usize,
     /// Loops read off the structure without an LP.
     pub direct_loops: usize,
+    /// Loops whose LP answer was poor, recomputed exactly on their support.
+    pub exact_repairs: usize,
+    /// LP answers that were no loop even after exact repair (why, per answer).
+    pub dropped: Vec<String>,
 }
 
 /// Names needed to describe loops.
@@ -88,6 +93,8 @@ pub fn find_loops(
         truncated: false,
         lp_solves: 0,
         direct_loops: 0,
+        exact_repairs: 0,
+        dropped: Vec::new(),
     };
     if members.is_empty() {
         return Ok(result);
@@ -224,6 +231,24 @@ pub fn find_loops(
             flux.sort_by_key(|(r, _)| *r);
             let Some(cycle) = describe_loop(columns, capable, allowed, names, &flux) else {
                 continue;
+            };
+            let cycle = if cycle.verified {
+                cycle
+            } else {
+                match repair_loop(columns, capable, allowed, names, &flux) {
+                    Some(repaired) => {
+                        result.exact_repairs += 1;
+                        repaired
+                    }
+                    None => {
+                        result.dropped.push(format!(
+                            "an LP answer through {} was not a steady state (relative residual {:.3e}) and no exact loop lies on its support; not listed",
+                            cycle.members.first().map_or("?", |m| m.reaction.as_str()),
+                            cycle.residual
+                        ));
+                        continue;
+                    }
+                }
             };
             for m in &cycle.members {
                 covered[m.index] = true;
@@ -445,6 +470,60 @@ fn describe_loop(
     })
 }
 
+/// A loop whose floating-point LP answer fails verification, recomputed
+/// exactly (see `exact`): on the LP's support (large entries), else on every
+/// entry the LP made nonzero, the unique null-space vector, oriented like the
+/// LP answer. Accepted only when every sign is allowed and the float check
+/// then passes; `None` when neither support carries an exact loop.
+fn repair_loop(
+    columns: &[Vec<(usize, f64)>],
+    capable: &[Directions],
+    allowed: &[Directions],
+    names: &Names<'_>,
+    flux: &[(usize, f64)],
+) -> Option<ElementaryLoop> {
+    let largest = flux.iter().map(|(_, v)| v.abs()).fold(0.0, f64::max);
+    let large: Vec<(usize, f64)> = flux
+        .iter()
+        .copied()
+        .filter(|(_, v)| v.abs() >= FLUX_NONZERO * largest)
+        .collect();
+    let nonzero: Vec<(usize, f64)> = flux.iter().copied().filter(|(_, v)| *v != 0.0).collect();
+    for support in [large, nonzero] {
+        let support_columns: Vec<Vec<(usize, f64)>> =
+            support.iter().map(|&(r, _)| columns[r].clone()).collect();
+        let Some(vector) = exact::unique_null_vector(&support_columns) else {
+            continue;
+        };
+        let Some(values) = vector
+            .iter()
+            .map(exact::to_f64)
+            .collect::<Option<Vec<f64>>>()
+        else {
+            continue;
+        };
+        // Orientation: the one agreeing with the LP on more of the flux.
+        let agreement: f64 = support
+            .iter()
+            .zip(&values)
+            .map(|(&(_, lp), &x)| (lp * x).signum() * lp.abs())
+            .sum();
+        let sign = if agreement < 0.0 { -1.0 } else { 1.0 };
+        let exact_flux: Vec<(usize, f64)> = support
+            .iter()
+            .zip(&values)
+            .filter(|(_, &x)| x != 0.0)
+            .map(|(&(r, _), &x)| (r, sign * x))
+            .collect();
+        if let Some(cycle) = describe_loop(columns, capable, allowed, names, &exact_flux) {
+            if cycle.verified && cycle.elementary {
+                return Some(cycle);
+            }
+        }
+    }
+    None
+}
+
 /// Scales coefficients (smallest |c| = 1 already) by the smallest multiplier
 /// that makes all of them integers within tolerance.
 fn snap_to_integers(scaled: &[f64]) -> (Vec<f64>, bool) {
@@ -498,6 +577,65 @@ mod tests {
         assert_eq!(direct_loop(&merged, &partners, 3), Some(vec![(3, -1.0)]));
         let alone = vec![merged[0].clone(), merged[2].clone()];
         assert_eq!(direct_loop(&alone, &proportional_partners(&alone), 0), None);
+    }
+
+    // A nearly degenerate answer of the kind the simplex gave on iLB1027_lipid
+    // (BiGG): three mitochondrial antiporters, oaa/akg, akg/mal and mal/oaa,
+    // that cancel exactly as 1·OAA/AKG − 1·AKG/MAL − 1·MAL/OAA (balance by
+    // hand), at huge and slightly wrong multiples, plus two steps A → B → C
+    // that close no loop at all. The float answer fails verification; its
+    // exact repair is the three-antiporter loop; flux on the open chain alone
+    // has no loop to repair.
+    #[test]
+    fn poor_lp_answer_is_repaired_to_the_exact_loop_on_its_support() {
+        // oaa_c 0, oaa_m 1, akg_c 2, akg_m 3, mal_c 4, mal_m 5, A 6, B 7, C 8.
+        let columns = vec![
+            vec![(0, -1.0), (1, 1.0), (2, 1.0), (3, -1.0)],
+            vec![(2, 1.0), (3, -1.0), (4, -1.0), (5, 1.0)],
+            vec![(0, -1.0), (1, 1.0), (4, 1.0), (5, -1.0)],
+            vec![(6, -1.0), (7, 1.0)],
+            vec![(7, -1.0), (8, 1.0)],
+        ];
+        let reactions: Vec<String> = ["OAAAKG", "AKGMAL", "MALOAA", "AB", "BC"]
+            .iter()
+            .map(|s| s.to_string())
+            .collect();
+        let metabolites: Vec<String> = (0..9).map(|m| format!("m{m}")).collect();
+        let names = Names {
+            reactions: &reactions,
+            metabolites: &metabolites,
+        };
+        let both = vec![Directions::BOTH; 5];
+        let poor = vec![
+            (0, 583_680.970_600_193_7),
+            (1, -583_680.971_997_571),
+            (2, -583_680.979_440_731_1),
+            (3, 1.0),
+            (4, 1.097_681_714_557_022_6),
+        ];
+        let float = describe_loop(&columns, &both, &both, &names, &poor).unwrap();
+        assert!(!float.verified, "residual {}", float.residual);
+        let repaired = repair_loop(&columns, &both, &both, &names, &poor).unwrap();
+        let members: Vec<(&str, f64)> = repaired
+            .members
+            .iter()
+            .map(|m| (m.reaction.as_str(), m.coefficient))
+            .collect();
+        assert_eq!(
+            members,
+            vec![("OAAAKG", 1.0), ("AKGMAL", -1.0), ("MALOAA", -1.0)]
+        );
+        assert!(repaired.verified && repaired.elementary && repaired.residual == 0.0);
+        // Orientation follows the LP answer: the same flux reversed.
+        let reversed: Vec<(usize, f64)> = poor.iter().map(|&(r, v)| (r, -v)).collect();
+        let back = repair_loop(&columns, &both, &both, &names, &reversed).unwrap();
+        assert_eq!(back.members[0].coefficient, -1.0);
+        // A direction the bounds forbid is not repaired into a loop.
+        let mut one_way = both.clone();
+        one_way[1] = Directions::FORWARD;
+        assert!(repair_loop(&columns, &both, &one_way, &names, &poor).is_none());
+        // The open chain alone is no loop, exactly or otherwise.
+        assert!(repair_loop(&columns, &both, &both, &names, &[(3, 1.0), (4, 1.1)]).is_none());
     }
 
     // Arithmetic (common practice): 1, 1.5, 0.5·… → smallest multiplier 2.

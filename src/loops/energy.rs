@@ -12,8 +12,10 @@ use super::network::ClosedNetwork;
 use super::recheck::{Forbid, Rechecker};
 use super::tolerance::ENERGY_SUM_ROUNDOFF;
 use super::{LoopAnalysis, LoopError};
+use crate::lp::LpError;
 use crate::model::Model;
 use crate::thermo::errors::ErrorModel;
+use rayon::prelude::*;
 use serde::Serialize;
 
 /// ΔrG'° of a reaction as written, with its standard uncertainty (kJ/mol).
@@ -246,21 +248,40 @@ fn assess(
         .iter()
         .map(|p| (p.index, p.coefficient.signum()))
         .collect();
-    let mut rechecker = Rechecker::new(
-        network.metabolite_count,
-        &network.columns,
-        &capable,
-        &forbids,
-    )
-    .map_err(lp_error)?;
-    for (pending, forbid) in rechecks.iter().zip(forbids) {
+    // Re-checks are independent feasibility questions (the answers do not
+    // depend on the LP's warm state), so they run in one chunk per core,
+    // each with its own session, and are read back in order.
+    let workers = rayon::current_num_threads().max(1);
+    let chunk = rechecks.len().div_ceil(workers).max(1);
+    let pairs: Vec<(&PendingRecheck, Forbid)> = rechecks.iter().zip(forbids.clone()).collect();
+    let answers: Vec<Vec<bool>> = pairs
+        .par_chunks(chunk)
+        .map(|part| {
+            let mut rechecker = Rechecker::new(
+                network.metabolite_count,
+                &network.columns,
+                &capable,
+                &forbids,
+            )?;
+            part.iter()
+                .map(|(pending, forbid)| {
+                    let cycle = &analysis.loops[pending.position];
+                    let wanted: Vec<(usize, f64)> = cycle
+                        .members
+                        .iter()
+                        .map(|m| (m.index, pending.orientation * m.coefficient))
+                        .collect();
+                    rechecker.still_capable(*forbid, &wanted).map(|(l, _)| l)
+                })
+                .collect::<Result<Vec<_>, LpError>>()
+        })
+        .collect::<Result<Vec<Vec<Vec<bool>>>, LpError>>()
+        .map_err(lp_error)?
+        .into_iter()
+        .flatten()
+        .collect();
+    for (pending, looping) in rechecks.iter().zip(answers) {
         let cycle = &analysis.loops[pending.position];
-        let wanted: Vec<(usize, f64)> = cycle
-            .members
-            .iter()
-            .map(|m| (m.index, pending.orientation * m.coefficient))
-            .collect();
-        let (looping, _) = rechecker.still_capable(forbid, &wanted).map_err(lp_error)?;
         let still_looping: Vec<String> = cycle
             .members
             .iter()

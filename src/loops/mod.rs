@@ -14,6 +14,7 @@ mod currency;
 mod egc;
 mod elementary;
 mod energy;
+mod exact;
 pub mod ids;
 mod network;
 mod nullspace;
@@ -90,6 +91,9 @@ pub struct LoopStats {
     pub loop_lp_solves: usize,
     /// Loops read off the compressed structure without an LP.
     pub direct_loops: usize,
+    /// Loops whose LP answer failed verification and were recomputed
+    /// exactly (rational arithmetic) on their support.
+    pub exact_repairs: usize,
 }
 
 /// Everything [`analyse_loops`] found.
@@ -188,6 +192,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
         direction_lps: capability.direction_lps,
         loop_lp_solves: 0,
         direct_loops: 0,
+        exact_repairs: 0,
     };
     let mut analysis = LoopAnalysis {
         model: model.id.clone(),
@@ -224,6 +229,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
     })?;
     stats.loop_lp_solves = set.lp_solves;
     stats.direct_loops = set.direct_loops;
+    stats.exact_repairs = set.exact_repairs;
     analysis.stats = stats;
     analysis.loops_truncated = set.truncated;
     analysis.uncovered_reactions = set
@@ -238,6 +244,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
             analysis.uncovered_reactions.join(", ")
         ));
     }
+    analysis.problems.extend(set.dropped.iter().cloned());
     for cycle in &set.loops {
         if !cycle.verified {
             analysis.problems.push(format!(
