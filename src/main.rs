@@ -339,21 +339,18 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             confine,
             findings,
         } => {
-            let baseline = baseline
-                .as_deref()
-                .map(|p| Ok::<_, Error>((p, baseline::load(p)?)));
-            let baseline = baseline.transpose()?;
-            let loaded = load(&project, &data, &confine.options(), &progress)?;
-            let mut report = pipeline::report_with(&loaded, &progress);
-            let mut outcome = findings.settle(
-                &mut report,
-                fail_on,
-                baseline.as_ref().map(|(p, b)| (*p, b)),
+            let (loaded, report, outcome) = judge(
+                &project,
+                &data,
+                &confine,
+                &findings,
+                Gate {
+                    fail_on,
+                    baseline: baseline.as_deref(),
+                    min_coverage,
+                },
+                &progress,
             )?;
-            outcome.require_coverage(&report, min_coverage);
-            if let Some(short) = &outcome.coverage_short {
-                eprintln!("{short}");
-            }
             let out = out_dir.unwrap_or_else(|| default_output(&project));
             let theme = if no_project_theme {
                 None
@@ -410,21 +407,18 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             sarif_root,
             report_url,
         } => {
-            let baseline = baseline
-                .as_deref()
-                .map(|p| Ok::<_, Error>((p, baseline::load(p)?)));
-            let baseline = baseline.transpose()?;
-            let loaded = load(&project, &data, &confine.options(), &progress)?;
-            let mut report = pipeline::report_with(&loaded, &progress);
-            let mut outcome = findings.settle(
-                &mut report,
-                fail_on,
-                baseline.as_ref().map(|(p, b)| (*p, b)),
+            let (loaded, report, outcome) = judge(
+                &project,
+                &data,
+                &confine,
+                &findings,
+                Gate {
+                    fail_on,
+                    baseline: baseline.as_deref(),
+                    min_coverage,
+                },
+                &progress,
             )?;
-            outcome.require_coverage(&report, min_coverage);
-            if let Some(short) = &outcome.coverage_short {
-                eprintln!("{short}");
-            }
             match format {
                 Format::Text => print!(
                     "{}",
@@ -453,6 +447,42 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             Ok(ExitCode::from(outcome.exit_code()))
         }
     }
+}
+
+/// What decides pass or fail besides the findings themselves.
+struct Gate<'a> {
+    fail_on: FailOn,
+    baseline: Option<&'a Path>,
+    min_coverage: Option<f64>,
+}
+
+/// Load, analyse and report a project, then settle the outcome: the
+/// `--only`/`--skip` filter, the baseline, the fail level and the coverage
+/// floor (whose shortfall is also said on stderr).
+fn judge(
+    project: &Path,
+    data: &[PathBuf],
+    confine: &Confine,
+    findings: &Findings,
+    gate: Gate<'_>,
+    progress: &Progress,
+) -> Result<(Project, Report, Outcome), Error> {
+    let baseline = gate
+        .baseline
+        .map(|p| Ok::<_, Error>((p, baseline::load(p)?)))
+        .transpose()?;
+    let loaded = load(project, data, &confine.options(), progress)?;
+    let mut report = pipeline::report_with(&loaded, progress);
+    let mut outcome = findings.settle(
+        &mut report,
+        gate.fail_on,
+        baseline.as_ref().map(|(p, b)| (*p, b)),
+    )?;
+    outcome.require_coverage(&report, gate.min_coverage);
+    if let Some(short) = &outcome.coverage_short {
+        eprintln!("{short}");
+    }
+    Ok((loaded, report, outcome))
 }
 
 /// Load a project, apply `--data` tables and print load warnings.

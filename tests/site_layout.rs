@@ -172,3 +172,52 @@ fn narrow_screens_keep_ids_and_verdicts_and_drop_secondary_columns() {
         .collect();
     assert_eq!(kept, ["Reaction", "Forward", "Backward", "Findings"]);
 }
+
+/// A reaction that is the subject of many findings (a transporter in
+/// hundreds of loops) keeps a small page: 50 rows and a pointer to the
+/// findings pages, where every finding is listed.
+#[test]
+fn entity_pages_show_at_most_50_findings() {
+    let mut report = demo_report();
+    let template = report
+        .findings
+        .iter()
+        .find(|f| f.subjects.iter().any(|s| s == "PYK"))
+        .expect("the demo has a finding about PYK")
+        .clone();
+    let before = report
+        .findings
+        .iter()
+        .filter(|f| f.subjects.iter().any(|s| s == "PYK"))
+        .count();
+    for i in 0..60 {
+        let mut f = template.clone();
+        f.message = format!("copy {i} of a finding about PYK");
+        report.findings.push(f);
+    }
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("site");
+    gibbsite::site::render(&report, None, &out).unwrap();
+    let slug = &report
+        .reactions
+        .iter()
+        .find(|r| r.id == "PYK")
+        .unwrap()
+        .slug;
+    let page = fs::read_to_string(out.join(format!("reactions/{slug}.html"))).unwrap();
+    let at = page.find("<h2 id=\"findings\">").unwrap();
+    let section = &page[at..];
+    let body = &section[section.find("<tbody>").unwrap()..section.find("</tbody>").unwrap()];
+    assert_eq!(body.matches("<tr ").count(), 50);
+    let total = before + 60;
+    assert!(section.contains(&format!("Findings about this reaction ({total})")));
+    assert!(section.contains(&format!("The first 50 of {total} are shown")));
+    // The full list still has every one.
+    let lists: String = fs::read_dir(out.join("findings"))
+        .unwrap()
+        .map(|e| fs::read_to_string(e.unwrap().path()).unwrap())
+        .collect();
+    for i in 0..60 {
+        assert!(lists.contains(&format!("copy {i} of a finding about PYK")));
+    }
+}
