@@ -220,7 +220,8 @@ impl Rechecker {
         let forbid_var =
             forbidden.and_then(|(j, t)| self.forbid_var.get(&(j, sign_key(t))).copied());
         if let Some(var) = forbid_var {
-            self.session.fix(var, 0.0)?;
+            // Zero flux stays feasible: no state copy needed.
+            self.session.fix_feasible(var, 0.0)?;
             solves += 1;
         }
         for k in 0..wanted.len() {
