@@ -382,7 +382,8 @@ fn loop_through(
     for (on, off) in [(part.forward, part.backward), (part.backward, part.forward)] {
         let Some(on) = on else { continue };
         if let Some(off) = off {
-            session.fix(off, 0.0)?;
+            // Zero flux stays feasible: no state copy needed.
+            session.fix_feasible(off, 0.0)?;
             solves += 1;
         }
         let attempt = session.fix(on, 1.0).map(|s| s.values.clone());

@@ -9,7 +9,7 @@
 //! whether doing so stops the loop's reactions from looping.
 
 use super::network::ClosedNetwork;
-use super::recheck::{Forbid, Rechecker};
+use super::recheck::{Forbid, Rechecker, Witnesses};
 use super::tolerance::ENERGY_SUM_ROUNDOFF;
 use super::{LoopAnalysis, LoopError};
 use crate::lp::LpError;
@@ -17,6 +17,7 @@ use crate::model::Model;
 use crate::thermo::errors::ErrorModel;
 use rayon::prelude::*;
 use serde::Serialize;
+use std::collections::{BTreeMap, BTreeSet};
 
 /// ΔrG'° of a reaction as written, with its standard uncertainty (kJ/mol).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
@@ -248,13 +249,51 @@ fn assess(
         .iter()
         .map(|p| (p.index, p.coefficient.signum()))
         .collect();
-    // Re-checks are independent feasibility questions (the answers do not
-    // depend on the LP's warm state), so they run in one chunk per core,
-    // each with its own session, and are read back in order.
+    let wanted: Vec<Vec<(usize, f64)>> = rechecks
+        .iter()
+        .map(|pending| {
+            analysis.loops[pending.position]
+                .members
+                .iter()
+                .map(|m| (m.index, pending.orientation * m.coefficient))
+                .collect()
+        })
+        .collect();
+    // Answers the listed loops already give; only the rest go to the LP.
+    let witnesses = Witnesses::new(&analysis.loops);
+    let known: Vec<Vec<Option<bool>>> = wanted
+        .iter()
+        .zip(&forbids)
+        .map(|(wanted, &forbid)| {
+            wanted
+                .iter()
+                .map(|&w| witnesses.shows(w, forbid).then_some(true))
+                .collect()
+        })
+        .collect();
+    // The answer to an open question (forbidden direction, member, sign)
+    // depends on nothing else, so a question several re-checks share is
+    // asked once. Questions are independent feasibility questions (the
+    // answers do not depend on the LP's warm state): sorted, cut into one
+    // chunk per core, each with its own session, one forbidding edit per
+    // run of questions with the same forbidden direction.
+    let questions: Vec<Question> = wanted
+        .iter()
+        .zip(&forbids)
+        .zip(&known)
+        .flat_map(|((wanted, &(r, s)), known)| {
+            wanted
+                .iter()
+                .zip(known)
+                .filter(|(_, k)| k.is_none())
+                .map(move |(&(m, t), _)| (r, s > 0.0, m, t > 0.0))
+        })
+        .collect::<BTreeSet<Question>>()
+        .into_iter()
+        .collect();
     let workers = rayon::current_num_threads().max(1);
-    let chunk = rechecks.len().div_ceil(workers).max(1);
-    let pairs: Vec<(&PendingRecheck, Forbid)> = rechecks.iter().zip(forbids.clone()).collect();
-    let answers: Vec<Vec<bool>> = pairs
+    let chunk = questions.len().div_ceil(workers).max(1);
+    let answered: BTreeMap<Question, bool> = questions
         .par_chunks(chunk)
         .map(|part| {
             let mut rechecker = Rechecker::new(
@@ -263,22 +302,32 @@ fn assess(
                 &capable,
                 &forbids,
             )?;
-            part.iter()
-                .map(|(pending, forbid)| {
-                    let cycle = &analysis.loops[pending.position];
-                    let wanted: Vec<(usize, f64)> = cycle
-                        .members
-                        .iter()
-                        .map(|m| (m.index, pending.orientation * m.coefficient))
-                        .collect();
-                    rechecker.still_capable(*forbid, &wanted).map(|(l, _)| l)
-                })
-                .collect::<Result<Vec<_>, LpError>>()
+            let mut out = Vec::with_capacity(part.len());
+            for group in part.chunk_by(|a, b| (a.0, a.1) == (b.0, b.1)) {
+                let forbid = (group[0].0, sign_of(group[0].1));
+                let asked: Vec<(usize, f64)> = group.iter().map(|q| (q.2, sign_of(q.3))).collect();
+                let (flags, _) =
+                    rechecker.still_capable(forbid, &asked, &vec![None; asked.len()])?;
+                out.extend(group.iter().copied().zip(flags));
+            }
+            Ok(out)
         })
-        .collect::<Result<Vec<Vec<Vec<bool>>>, LpError>>()
+        .collect::<Result<Vec<Vec<(Question, bool)>>, LpError>>()
         .map_err(lp_error)?
         .into_iter()
         .flatten()
+        .collect();
+    let answers: Vec<Vec<bool>> = wanted
+        .iter()
+        .zip(&forbids)
+        .zip(&known)
+        .map(|((wanted, &(r, s)), known)| {
+            wanted
+                .iter()
+                .zip(known)
+                .map(|(&(m, t), k)| k.unwrap_or_else(|| answered[&(r, s > 0.0, m, t > 0.0)]))
+                .collect()
+        })
         .collect();
     for (pending, looping) in rechecks.iter().zip(answers) {
         let cycle = &analysis.loops[pending.position];
@@ -303,6 +352,18 @@ fn assess(
         }
     }
     Ok(out)
+}
+
+/// An open re-check question: (forbidden reaction, forbids forward?,
+/// member, asked forward?).
+type Question = (usize, bool, usize, bool);
+
+fn sign_of(forward: bool) -> f64 {
+    if forward {
+        1.0
+    } else {
+        -1.0
+    }
 }
 
 /// A suggested constraint waiting for its re-check.

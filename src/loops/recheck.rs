@@ -17,15 +17,77 @@
 //! irreversible column is fixed at 0. Each feasible solution settles every
 //! member it shows carrying flux in its loop direction, so a re-check costs a
 //! few warm dual-simplex edits instead of a capability analysis.
+//!
+//! Many answers need no LP at all: every listed loop is a verified flux of
+//! the closed network, so a loop that does not use the forbidden direction
+//! shows each of its members still carrying flux in its direction there
+//! (and, for a loop that runs both ways, in the opposite one too).
+//! [`Witnesses`] settles those; the LP is asked only about the rest, and
+//! not at all when nothing is left.
 
 use super::compress::compress;
+use super::elementary::ElementaryLoop;
 use super::network::Directions;
 use super::tolerance::FLUX_NONZERO;
 use crate::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, HashMap};
 
 /// A direction to forbid: (reaction, sign of the forbidden flux).
 pub type Forbid = (usize, f64);
+
+/// Listed loops as ready answers to re-check questions.
+pub struct Witnesses<'a> {
+    loops: &'a [ElementaryLoop],
+    /// (reaction, forward?) → (loop position, orientation ±1) of every
+    /// verified loop, or reversible loop run backwards, with that reaction
+    /// carrying flux in that direction.
+    carriers: HashMap<(usize, bool), Vec<(usize, f64)>>,
+}
+
+impl<'a> Witnesses<'a> {
+    /// Only verified loops serve (steady state, signs the bounds allow);
+    /// their members are sorted by reaction index.
+    pub fn new(loops: &'a [ElementaryLoop]) -> Witnesses<'a> {
+        let mut carriers: HashMap<(usize, bool), Vec<(usize, f64)>> = HashMap::new();
+        for (position, cycle) in loops.iter().enumerate() {
+            if !cycle.verified {
+                continue;
+            }
+            let orientations: &[f64] = if cycle.reversible {
+                &[1.0, -1.0]
+            } else {
+                &[1.0]
+            };
+            for &orientation in orientations {
+                for member in &cycle.members {
+                    let forward = orientation * member.coefficient > 0.0;
+                    carriers
+                        .entry((member.index, forward))
+                        .or_default()
+                        .push((position, orientation));
+                }
+            }
+        }
+        Witnesses { loops, carriers }
+    }
+
+    /// Whether a listed loop shows `reaction` carrying flux of `sign` with
+    /// `forbid` in force: one that carries it and does not use the forbidden
+    /// direction (a flux of the closed network without that direction is a
+    /// flux of the constrained network).
+    pub fn shows(&self, (reaction, sign): (usize, f64), forbid: Forbid) -> bool {
+        let Some(carriers) = self.carriers.get(&(reaction, sign > 0.0)) else {
+            return false;
+        };
+        carriers.iter().any(|&(position, orientation)| {
+            let members = &self.loops[position].members;
+            match members.binary_search_by_key(&forbid.0, |m| m.index) {
+                Ok(k) => orientation * members[k].coefficient * forbid.1 < 0.0,
+                Err(_) => true,
+            }
+        })
+    }
+}
 
 /// Warm LP over the compressed loop-capable network.
 pub struct Rechecker {
@@ -119,15 +181,17 @@ impl Rechecker {
     }
 
     /// With `forbid` in force, which of `wanted` (reaction, loop sign) can
-    /// still carry flux of that sign. Returns one flag per entry and the
-    /// number of LP edits.
+    /// still carry flux of that sign; `known` holds answers already settled
+    /// (`Some(true)` from a [`Witnesses`] loop), one per entry. Returns one
+    /// flag per entry and the number of LP edits.
     pub fn still_capable(
         &mut self,
         forbid: Forbid,
         wanted: &[(usize, f64)],
+        known: &[Option<bool>],
     ) -> Result<(Vec<bool>, usize), LpError> {
         let mut solves = 0;
-        let mut settled: Vec<Option<bool>> = vec![None; wanted.len()];
+        let mut settled: Vec<Option<bool>> = known.to_vec();
         // (column, merged sign) per wanted entry.
         let targets: Vec<Option<(usize, f64)>> = wanted
             .iter()
@@ -135,6 +199,9 @@ impl Rechecker {
             .collect();
         let forbidden = self.column_of[forbid.0].map(|(j, f)| (j, (forbid.1 * f).signum()));
         for (k, target) in targets.iter().enumerate() {
+            if settled[k].is_some() {
+                continue;
+            }
             match *target {
                 None => settled[k] = Some(false),
                 Some((j, t)) if !self.allowed[j].allows(t) => settled[k] = Some(false),
@@ -144,10 +211,17 @@ impl Rechecker {
                 _ => {}
             }
         }
+        if settled.iter().all(Option::is_some) {
+            return Ok((
+                settled.into_iter().map(|s| s == Some(true)).collect(),
+                solves,
+            ));
+        }
         let forbid_var =
             forbidden.and_then(|(j, t)| self.forbid_var.get(&(j, sign_key(t))).copied());
         if let Some(var) = forbid_var {
-            self.session.fix(var, 0.0)?;
+            // Zero flux stays feasible: no state copy needed.
+            self.session.fix_feasible(var, 0.0)?;
             solves += 1;
         }
         for k in 0..wanted.len() {
@@ -183,5 +257,61 @@ impl Rechecker {
             settled.into_iter().map(|s| s == Some(true)).collect(),
             solves,
         ))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::loops::LoopMember;
+
+    fn listed(members: &[(usize, f64)], reversible: bool, verified: bool) -> ElementaryLoop {
+        ElementaryLoop {
+            id: String::new(),
+            members: members
+                .iter()
+                .map(|&(index, coefficient)| LoopMember {
+                    reaction: format!("R{index}"),
+                    index,
+                    coefficient,
+                })
+                .collect(),
+            metabolites: Vec::new(),
+            integer_coefficients: true,
+            reversible,
+            residual: 0.0,
+            verified,
+            elementary: true,
+        }
+    }
+
+    // Three copies of A ⇌ B, R0, R1, R2 (balance by hand, common practice):
+    // R0 − R1 and R1 − R2 are loops, both runnable backwards. With R0's
+    // forward direction forbidden, R1 − R2 run backwards still shows R1
+    // backward and R2 forward; nothing listed shows R0 forward without
+    // using it, and an unverified or one-way loop is not read backwards.
+    #[test]
+    fn listed_loops_settle_questions_that_avoid_the_forbidden_direction() {
+        let loops = vec![
+            listed(&[(0, 1.0), (1, -1.0)], true, true),
+            listed(&[(1, 1.0), (2, -1.0)], true, true),
+        ];
+        let witnesses = Witnesses::new(&loops);
+        let forbid = (0, 1.0);
+        assert!(witnesses.shows((1, -1.0), forbid));
+        assert!(witnesses.shows((2, 1.0), forbid));
+        assert!(witnesses.shows((1, 1.0), forbid));
+        assert!(!witnesses.shows((0, 1.0), forbid));
+        // R0 backward: R0 − R1 run backwards, which does not run R0 forward.
+        assert!(witnesses.shows((0, -1.0), forbid));
+        // Forbidding R0 backward instead leaves R0 forward shown by R0 − R1.
+        assert!(witnesses.shows((0, 1.0), (0, -1.0)));
+
+        let one_way = vec![listed(&[(1, 1.0), (2, -1.0)], false, true)];
+        let witnesses = Witnesses::new(&one_way);
+        assert!(witnesses.shows((1, 1.0), forbid));
+        assert!(!witnesses.shows((1, -1.0), forbid));
+        let unverified = vec![listed(&[(1, 1.0), (2, -1.0)], true, false)];
+        assert!(!Witnesses::new(&unverified).shows((1, 1.0), forbid));
     }
 }

@@ -117,6 +117,28 @@ impl LpSession {
         }
     }
 
+    /// As [`LpSession::fix`], for an edit the caller knows keeps the problem
+    /// feasible (e.g. a flux fixed at 0 in a cone that contains 0): no copy
+    /// of the solver state is kept to return to, which [`LpSession::fix`]
+    /// pays on every call. Should the solver fail anyway, the session is
+    /// rebuilt without this fix and the error returned.
+    pub fn fix_feasible(&mut self, var: Var, value: f64) -> Result<&LpSolution, LpError> {
+        let state = self.take_state()?;
+        match state.fix_var(self.vars[var.0], value) {
+            Ok(outcome) => {
+                let (state, current) = read_outcome(outcome, &self.vars)?;
+                self.state = Some(state);
+                self.current = current;
+                self.fixes.insert(var.0, value);
+                Ok(&self.current)
+            }
+            Err(error) => {
+                self.rebuild()?;
+                Err(convert_error(error))
+            }
+        }
+    }
+
     /// Restores the bounds of a variable fixed by [`LpSession::fix`] and
     /// re-solves.
     pub fn release(&mut self, var: Var) -> Result<&LpSolution, LpError> {

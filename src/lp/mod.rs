@@ -224,5 +224,13 @@ mod tests {
         assert!(released.objective.abs() < 1e-9);
         let fixed = session.fix(y, 1.0).unwrap();
         assert!((fixed.value(x) - 1.0).abs() < 1e-9);
+        // A fix that keeps the problem feasible, without a state copy: the
+        // same optimum as `fix` (x = y = 1 → 2), then released back to 0.
+        session.release(y).unwrap();
+        let fixed = session.fix_feasible(x, 1.0).unwrap();
+        assert!((fixed.objective - 2.0).abs() < 1e-9);
+        assert!((fixed.value(y) - 1.0).abs() < 1e-9);
+        let released = session.release(x).unwrap();
+        assert!(released.objective.abs() < 1e-9);
     }
 }
