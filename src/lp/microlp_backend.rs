@@ -97,24 +97,10 @@ impl LpSession {
     /// Fixes `var` at `value` and re-solves. On error the session returns to
     /// the state before this call.
     pub fn fix(&mut self, var: Var, value: f64) -> Result<&LpSolution, LpError> {
-        let state = self.take_state()?;
         // A failed edit consumes the solver state; a copy of the basis is far
         // cheaper than solving again from scratch, and infeasible fixes are
         // ordinary answers for the feasibility questions asked here.
-        let backup = state.clone();
-        match state.fix_var(self.vars[var.0], value) {
-            Ok(outcome) => {
-                let (state, current) = read_outcome(outcome, &self.vars)?;
-                self.state = Some(state);
-                self.current = current;
-                self.fixes.insert(var.0, value);
-                Ok(&self.current)
-            }
-            Err(error) => {
-                self.state = Some(backup);
-                Err(convert_error(error))
-            }
-        }
+        self.fix_then(var, value, true)
     }
 
     /// As [`LpSession::fix`], for an edit the caller knows keeps the problem
@@ -123,7 +109,14 @@ impl LpSession {
     /// pays on every call. Should the solver fail anyway, the session is
     /// rebuilt without this fix and the error returned.
     pub fn fix_feasible(&mut self, var: Var, value: f64) -> Result<&LpSolution, LpError> {
+        self.fix_then(var, value, false)
+    }
+
+    /// The edit behind both fixes; on error the session returns to the copy
+    /// kept (`keep_copy`) or is rebuilt without the fix.
+    fn fix_then(&mut self, var: Var, value: f64, keep_copy: bool) -> Result<&LpSolution, LpError> {
         let state = self.take_state()?;
+        let backup = keep_copy.then(|| state.clone());
         match state.fix_var(self.vars[var.0], value) {
             Ok(outcome) => {
                 let (state, current) = read_outcome(outcome, &self.vars)?;
@@ -133,7 +126,10 @@ impl LpSession {
                 Ok(&self.current)
             }
             Err(error) => {
-                self.rebuild()?;
+                match backup {
+                    Some(backup) => self.state = Some(backup),
+                    None => self.rebuild()?,
+                }
                 Err(convert_error(error))
             }
         }
