@@ -231,8 +231,9 @@ fn entity_pages_show_at_most_50_findings() {
     let page = fs::read_to_string(out.join(format!("reactions/{slug}.html"))).unwrap();
     let at = page.find("<h2 id=\"findings\">").unwrap();
     let section = &page[at..];
-    let body = &section[section.find("<tbody>").unwrap()..section.find("</tbody>").unwrap()];
-    assert_eq!(body.matches("<tr ").count(), 50);
+    let body =
+        &section[section.find("<ul class=\"findings\">").unwrap()..section.find("</ul>").unwrap()];
+    assert_eq!(body.matches("<li class=\"row-").count(), 50);
     let total = before + 60;
     assert!(section.contains(&format!("Findings about this reaction ({total})")));
     assert!(section.contains(&format!("The first 50 of {total} are shown")));
