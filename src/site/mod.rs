@@ -81,10 +81,9 @@ pub fn render_with_progress(
     check_slugs(&sorted)?;
 
     let staging = Staging::new(out)?;
-    staging.write(
-        "report.json",
-        crate::report::json::to_json(report).as_bytes(),
-    )?;
+    staging.write_with("report.json", |out| {
+        crate::report::json::write_json(report, out)
+    })?;
     if let Some(csv) = coverage::missing_csv(&sorted) {
         staging.write(coverage::MISSING_CSV, csv.as_bytes())?;
     }
