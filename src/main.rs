@@ -359,7 +359,7 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             };
             // The model is not needed for the pages: free it first.
             drop(loaded);
-            pipeline::render_with(&report, theme.as_deref(), &out, &progress)?;
+            let report = pipeline::render_owned_with(report, theme.as_deref(), &out, &progress)?;
             shown.finish(&report, &progress);
             if !shown.quiet {
                 eprintln!("site written to {}", out.display());
