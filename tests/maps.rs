@@ -168,6 +168,7 @@ fn every_map_link_resolves_and_every_legend_shows_its_second_channel() {
     // The shared key and stylesheet of the maps on pages.
     let shared_legend = std::fs::read_to_string(out.join("assets/network-map-legend.svg")).unwrap();
     let shared_css = std::fs::read_to_string(out.join("assets/network-map.css")).unwrap();
+    let site_css = std::fs::read_to_string(out.join("assets/site.css")).unwrap();
     assert_legend_complete("assets/network-map-legend.svg", &shared_legend, &shared_css);
     let mut files: Vec<PathBuf> = Vec::new();
     for folder in ["maps", "reactions", "metabolites", "loops", "scenarios"] {
@@ -211,7 +212,9 @@ fn every_map_link_resolves_and_every_legend_shows_its_second_channel() {
                 let src = &text[at..at + text[at..].find('"').unwrap()];
                 assert!(resolve(file, src).ends_with("assets/network-map-legend.svg"));
                 assert!(resolve(file, src).is_file());
-                assert!(text.contains("assets/network-map.css\">"));
+                // (in the one stylesheet of the page, which holds it)
+                assert!(text.contains("assets/site.css\">"));
+                assert!(site_css.contains(&shared_css));
             }
         }
     }
@@ -425,11 +428,13 @@ fn neighbourhood_maps_are_capped_and_say_what_they_leave_out() {
         .unwrap();
     assert!(!part.svg.contains("more not drawn"));
     assert!(part.drawn.nodes.iter().any(|n| n.id == "w19_c"));
-    // The page states the limits.
+    // The page links to where the limits are stated, once for the site.
     let out = tmp.path().join("site");
     gibbsite::site::render(&report, None, &out).unwrap();
     let page = std::fs::read_to_string(out.join("reactions/R05.html")).unwrap();
-    assert!(page.contains(&format!(
+    assert!(page.contains("href=\"../guide.html#map\""));
+    let guide = std::fs::read_to_string(out.join("guide.html")).unwrap();
+    assert!(guide.contains(&format!(
         "at most {NEIGHBOURHOOD_REACTIONS} reactions (the nearest ones) and {NEIGHBOURHOOD_METABOLITES} metabolite boxes"
     )));
 }

@@ -119,9 +119,13 @@ fn search_index_is_a_script_and_every_page_has_the_search_box() {
     for e in &entries {
         assert!(out.join(&e[3]).is_file(), "{e:?}");
     }
-    // The search script is our own asset; the box is on every page, hidden
-    // until the script shows it, with the page's way back to the root.
+    // The search script is our own asset, part of the one script of every
+    // page; it makes the box (pages carry no markup for it), and every page
+    // gives it the way back to the root.
     assert!(out.join("assets/search.js").is_file());
+    let script = fs::read_to_string(out.join("assets/site.js")).unwrap();
+    assert!(script.contains(&fs::read_to_string(out.join("assets/search.js")).unwrap()));
+    assert!(script.contains("form.className = \"site-search\""));
     for (path, root) in [
         ("index.html", ""),
         ("reactions/index.html", "../"),
@@ -132,16 +136,36 @@ fn search_index_is_a_script_and_every_page_has_the_search_box() {
         let html = fs::read_to_string(out.join(path)).unwrap();
         assert!(
             html.contains(&format!(
-                "<form class=\"site-search\" role=\"search\" data-root=\"{root}\" hidden>"
+                "<body class=\"section-{}\" data-root=\"{root}\">",
+                section(path)
             )),
             "{path}"
         );
         assert!(
             html.contains(&format!(
-                "<script src=\"{root}assets/search.js\" defer></script>"
+                "<script src=\"{root}assets/site.js\" defer></script>"
             )),
             "{path}"
         );
+        // One stylesheet and one script per page.
+        assert_eq!(
+            html.matches("<link rel=\"stylesheet\"").count(),
+            1,
+            "{path}"
+        );
+        if path != "findings.html" {
+            // (the findings page also loads its filters' data)
+            assert_eq!(html.matches("<script").count(), 1, "{path}");
+        }
+    }
+}
+
+/// The top-bar section of a page of the demo site.
+fn section(path: &str) -> &str {
+    match path.split_once('/') {
+        Some((folder, _)) => folder,
+        None if path == "index.html" => "overview",
+        None => path.trim_end_matches(".html"),
     }
 }
 
@@ -207,8 +231,9 @@ fn entity_pages_show_at_most_50_findings() {
     let page = fs::read_to_string(out.join(format!("reactions/{slug}.html"))).unwrap();
     let at = page.find("<h2 id=\"findings\">").unwrap();
     let section = &page[at..];
-    let body = &section[section.find("<tbody>").unwrap()..section.find("</tbody>").unwrap()];
-    assert_eq!(body.matches("<tr ").count(), 50);
+    let body =
+        &section[section.find("<ul class=\"findings\">").unwrap()..section.find("</ul>").unwrap()];
+    assert_eq!(body.matches("<li class=\"row-").count(), 50);
     let total = before + 60;
     assert!(section.contains(&format!("Findings about this reaction ({total})")));
     assert!(section.contains(&format!("The first 50 of {total} are shown")));

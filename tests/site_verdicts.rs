@@ -128,9 +128,8 @@ fn badges_follow_the_severity_of_the_finding_behind_them() {
 
     // The reaction page shows the same badges as the index.
     let hex_page = page(&out, "reactions/HEX.html");
-    assert!(hex_page.contains(
-        "<tr><th scope=\"row\">Backward</th><td><span class=\"verdict v-note\" title=\"note\">"
-    ));
+    assert!(hex_page
+        .contains("<div><dt>Backward</dt><dd><span class=\"verdict v-note\" title=\"note\">"));
 }
 
 #[test]

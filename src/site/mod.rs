@@ -23,6 +23,7 @@
 //! maps/index.html  maps/<group>.html (+ .svg) (network maps, see [`map`])
 //! ```
 
+pub mod bundle;
 pub mod coverage;
 pub mod derived;
 pub mod energy_cycle_pages;
@@ -104,6 +105,9 @@ pub fn render_owned(
     }
     for (name, bytes) in theme.assets() {
         staging.write(&format!("assets/{name}"), bytes)?;
+    }
+    for (path, bytes) in bundle::files(&theme) {
+        staging.write(&path, &bytes)?;
     }
     staging.write(search::INDEX_FILE, search::index_script(&sorted).as_bytes())?;
     let mut files = Vec::new();
@@ -643,6 +647,16 @@ impl<'r> Pages<'r> {
                 "findings",
                 "Finding kinds",
                 context! { kinds => crate::report::kinds::site_rows(report) },
+            ),
+            page(
+                "guide.html",
+                "guide.html".into(),
+                "overview",
+                "Reading these pages",
+                context! {
+                    neighbourhood_reactions => map::NEIGHBOURHOOD_REACTIONS,
+                    neighbourhood_metabolites => map::NEIGHBOURHOOD_METABOLITES,
+                },
             ),
             page(
                 "coverage.html",

@@ -88,12 +88,17 @@ pub(crate) fn text(x: f64, y: f64, anchor: &str, class: &str, content: String) -
         .set("class", class)
 }
 
-fn label(x: f64, y: f64, anchor: &str, class: &str, text: String) -> Text {
-    Text::new(text)
-        .set("x", x)
-        .set("y", y)
-        .set("text-anchor", anchor)
-        .set("class", class)
+/// A label of the bar; its anchor comes from the stylesheet (`svg.dg-bar
+/// text` is centred, classes `start` and `end` move it), not an attribute
+/// on every label.
+fn label(x: f64, y: f64, class: &str, text: String) -> Text {
+    Text::new(text).set("x", x).set("y", y).set("class", class)
+}
+
+/// Whole user units: the bar is 640 units wide, so a unit is well under a
+/// pixel at any page width, and integers keep the drawing short.
+fn whole(v: f64) -> f64 {
+    v.round() + 0.0
 }
 
 /// The bar as an inline `<svg>` element. `title` (e.g. the reaction id) is
@@ -103,7 +108,8 @@ pub fn range_bar(title: &str, bar: &RangeBar) -> String {
         return String::new();
     }
     let scale = Scale::for_bar(bar);
-    let (x_min, x_max, x_zero) = (scale.x(bar.min), scale.x(bar.max), scale.x(0.0));
+    let x = |v: f64| whole(scale.x(v));
+    let (x_min, x_max, x_zero) = (x(bar.min), x(bar.max), x(0.0));
     let allowance = bar.allowance.max(0.0);
 
     let hatch = Pattern::new()
@@ -131,7 +137,6 @@ pub fn range_bar(title: &str, bar: &RangeBar) -> String {
             energy(bar.min),
             energy(bar.max)
         )))
-        .add(Definitions::new().add(hatch))
         // Axis across the whole plot.
         .add(
             Line::new()
@@ -143,22 +148,26 @@ pub fn range_bar(title: &str, bar: &RangeBar) -> String {
         );
 
     if allowance > 0.0 {
-        let (a_min, a_max) = (scale.x(bar.min - allowance), scale.x(bar.max + allowance));
-        doc = doc.add(
+        // The hatching is defined only on bars that use it.
+        let (a_min, a_max) = (x(bar.min - allowance), x(bar.max + allowance));
+        doc = doc.add(Definitions::new().add(hatch)).add(
             Rectangle::new()
                 .set("class", "allowance")
                 .set("x", a_min)
                 .set("y", BAR_TOP - ALLOWANCE_PAD)
-                .set("width", round2(a_max - a_min))
+                .set("width", a_max - a_min)
                 .set("height", BAR_HEIGHT + 2.0 * ALLOWANCE_PAD)
                 .set("fill", "url(#hatch)"),
         );
     }
     // A range of one value still gets a visible sliver, centred on it.
     let (bar_x, bar_w) = if x_max - x_min < 2.0 {
-        (round2((x_min + x_max) / 2.0 - 1.0), 2.0)
+        (
+            whole((scale.x(bar.min) + scale.x(bar.max)) / 2.0 - 1.0),
+            2.0,
+        )
     } else {
-        (x_min, round2(x_max - x_min))
+        (x_min, x_max - x_min)
     };
     doc = doc.add(
         Rectangle::new()
@@ -170,7 +179,7 @@ pub fn range_bar(title: &str, bar: &RangeBar) -> String {
     );
 
     if let Some(standard) = bar.standard.filter(|v| v.is_finite()) {
-        let x = scale.x(standard);
+        let x = x(standard);
         doc = doc.add(
             Path::new()
                 .set("class", "standard")
@@ -178,7 +187,7 @@ pub fn range_bar(title: &str, bar: &RangeBar) -> String {
         );
     }
     if let Some(measured) = bar.measured.filter(|v| v.is_finite()) {
-        let x = scale.x(measured);
+        let x = x(measured);
         doc = doc.add(
             svg::node::element::Circle::new()
                 .set("class", "measured")
@@ -198,28 +207,22 @@ pub fn range_bar(title: &str, bar: &RangeBar) -> String {
                 .set("y1", 14)
                 .set("y2", BAR_TOP + BAR_HEIGHT + 12.0),
         )
-        .add(label(x_zero, 11.0, "middle", "zero-label", "0".into()));
+        .add(label(x_zero, 11.0, "zero-label", "0".into()));
 
     // Value labels under the bar; stacked when they would overlap.
     let below = BAR_TOP + BAR_HEIGHT + 24.0;
     if (bar.max - bar.min).abs() < 1e-9 {
-        doc = doc.add(label(x_min, below, "middle", "value", energy(bar.min)));
+        doc = doc.add(label(x_min, below, "value", energy(bar.min)));
     } else if x_max - x_min < 70.0 {
         doc = doc
-            .add(label(x_min, below, "end", "value", energy(bar.min)))
-            .add(label(
-                x_max,
-                below + 14.0,
-                "start",
-                "value",
-                energy(bar.max),
-            ));
+            .add(label(x_min, below, "value end", energy(bar.min)))
+            .add(label(x_max, below + 14.0, "value start", energy(bar.max)));
     } else {
         doc = doc
-            .add(label(x_min, below, "middle", "value", energy(bar.min)))
-            .add(label(x_max, below, "middle", "value", energy(bar.max)));
+            .add(label(x_min, below, "value", energy(bar.min)))
+            .add(label(x_max, below, "value", energy(bar.max)));
     }
-    doc.add(label(PLOT_RIGHT, 11.0, "end", "unit", "kJ/mol".into()))
+    doc.add(label(PLOT_RIGHT, 11.0, "unit end", "kJ/mol".into()))
         .to_string()
 }
 

@@ -49,6 +49,7 @@ pub static DEFAULT_THEME: &[(&str, &[u8])] = embed![
     "map.js",
     "search.js",
     "pager.html",
+    "guide.html",
     "findings.js",
 ];
 

@@ -45,7 +45,7 @@ pub fn html(page: &str) -> String {
                 if verbatim.is_some() {
                     out.push_str(text);
                 } else {
-                    out.push_str(&text_node(text));
+                    text_node(&mut out, text);
                 }
                 rest = &rest[end..];
             }
@@ -62,13 +62,15 @@ fn tag_name(tag: &str) -> &str {
     &inner[..end]
 }
 
-/// Primes and minus signs in one run of (escaped) text.
-fn text_node(text: &str) -> String {
+/// Primes and minus signs in one run of (escaped) text, appended to
+/// `page`; what comes before a sign is looked up in this run only.
+fn text_node(page: &mut String, text: &str) {
     // Most text has nothing to set: copy it whole.
-    if !text.contains(['\'', '-', '&']) {
-        return text.to_owned();
+    if !text.bytes().any(|b| matches!(b, b'\'' | b'-' | b'&')) {
+        page.push_str(text);
+        return;
     }
-    let mut out = String::with_capacity(text.len());
+    let start = page.len();
     let mut rest = text;
     while let Some(c) = rest.chars().next() {
         // A prime, escaped by the template engine or written plain.
@@ -82,21 +84,20 @@ fn text_node(text: &str) -> String {
             None
         };
         if let Some(q) = quote {
-            if is_primed(&out) {
-                out.push('′');
+            if is_primed(&page[start..]) {
+                page.push('′');
                 rest = &rest[q.len()..];
                 continue;
             }
         }
-        if c == '-' && is_sign(&out, &rest[1..]) {
-            out.push('−');
+        if c == '-' && is_sign(&page[start..], &rest[1..]) {
+            page.push('−');
             rest = &rest[1..];
             continue;
         }
-        out.push(c);
+        page.push(c);
         rest = &rest[c.len_utf8()..];
     }
-    out
 }
 
 /// Does `before` end in a symbol that takes a prime (and not inside a

@@ -16,9 +16,11 @@
 //! with the parent folder.
 
 use crate::error::Error;
+use std::collections::HashSet;
 use std::fs;
 use std::io;
 use std::path::{Path, PathBuf};
+use std::sync::Mutex;
 use tempfile::TempDir;
 
 /// Written into every site; its presence is what allows a later run to
@@ -32,6 +34,9 @@ const STAGING_FILE: &str = ".gibbsite-staging";
 /// A site being written.
 pub struct Staging {
     dir: TempDir,
+    /// Folders of the site already made: thousands of pages share a few
+    /// folders, so each is created once, not checked on every write.
+    made: Mutex<HashSet<PathBuf>>,
     out: PathBuf,
     parent: PathBuf,
     name: String,
@@ -65,6 +70,7 @@ impl Staging {
         mark_staging(dir.path())?;
         let staging = Staging {
             dir,
+            made: Mutex::default(),
             out: out.to_path_buf(),
             parent,
             name,
@@ -77,7 +83,18 @@ impl Staging {
     pub fn write(&self, relative: &str, bytes: &[u8]) -> Result<(), Error> {
         let path = self.dir.path().join(relative);
         if let Some(folder) = path.parent() {
-            fs::create_dir_all(folder).map_err(|e| Error::output(folder, e))?;
+            let known = self
+                .made
+                .lock()
+                .unwrap_or_else(|e| e.into_inner())
+                .contains(folder);
+            if !known {
+                fs::create_dir_all(folder).map_err(|e| Error::output(folder, e))?;
+                self.made
+                    .lock()
+                    .unwrap_or_else(|e| e.into_inner())
+                    .insert(folder.to_path_buf());
+            }
         }
         fs::write(&path, bytes).map_err(|e| Error::output(&path, e))
     }

@@ -1,8 +1,8 @@
 // Site-wide search: a box in the top bar that looks up reactions,
 // metabolites, loops, scenarios and notes by id or name. The index is a
 // script file (assets/search-index.js) loaded on first use, so search works
-// from file:// without fetching anything. Without JavaScript the box stays
-// hidden and every page reads as before.
+// from file:// without fetching anything. Without JavaScript there is no
+// box and every page reads as before.
 (function () {
   "use strict";
   var LIMIT = 20;
@@ -60,13 +60,37 @@
     }
   }
 
+  // The box exists only with the script, so pages carry no markup for it:
+  // a search form in the top bar, before the tally.
+  function makeForm(bar) {
+    var form = document.createElement("form");
+    form.className = "site-search";
+    form.setAttribute("role", "search");
+    var label = document.createElement("label");
+    label.className = "visually-hidden";
+    label.htmlFor = "site-search";
+    label.textContent = "Search reactions, metabolites, loops";
+    var input = document.createElement("input");
+    input.id = "site-search";
+    input.type = "search";
+    input.placeholder = "Search id or name\u2026";
+    input.autocomplete = "off";
+    var list = document.createElement("ol");
+    list.setAttribute("aria-label", "Search results");
+    form.appendChild(label);
+    form.appendChild(input);
+    form.appendChild(list);
+    bar.insertBefore(form, bar.querySelector(".tally"));
+    return form;
+  }
+
   document.addEventListener("DOMContentLoaded", function () {
-    var form = document.querySelector("form.site-search");
-    if (!form) return;
-    var root = form.getAttribute("data-root") || "";
+    var bar = document.querySelector("header.topbar");
+    if (!bar) return;
+    var form = makeForm(bar);
+    var root = document.body.getAttribute("data-root") || "";
     var input = form.querySelector("input");
     var list = form.querySelector("ol");
-    form.hidden = false;
     function update() {
       load(root, function () { show(list, root, find(input.value)); });
     }
