@@ -31,11 +31,14 @@ pub struct Finding {
     pub kind: String,
     pub severity: Severity,
     /// Ids of the reactions / metabolites / loops concerned (first = main).
+    #[serde(default, skip_serializing_if = "crate::report::json::empty")]
     pub subjects: Vec<String>,
     /// Scenario id when the finding belongs to one flux scenario.
+    #[serde(default, skip_serializing_if = "crate::report::json::none")]
     pub scenario: Option<String>,
     pub message: String,
     /// Named numbers backing the message (kJ/mol unless the name says else).
+    #[serde(default, skip_serializing_if = "crate::report::json::empty_map")]
     pub evidence: BTreeMap<String, f64>,
 }
 

@@ -355,9 +355,11 @@ fn run(command: Command, shown: &Output) -> Result<ExitCode, Error> {
             let theme = if no_project_theme {
                 None
             } else {
-                loaded.settings.theme_dir.as_deref()
+                loaded.settings.theme_dir.clone()
             };
-            pipeline::render_with(&report, theme, &out, &progress)?;
+            // The model is not needed for the pages: free it first.
+            drop(loaded);
+            let report = pipeline::render_owned_with(report, theme.as_deref(), &out, &progress)?;
             shown.finish(&report, &progress);
             if !shown.quiet {
                 eprintln!("site written to {}", out.display());

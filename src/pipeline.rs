@@ -112,6 +112,18 @@ pub fn render_with(
     crate::site::render_with_progress(report, theme_dir, out, progress)
 }
 
+/// [`render_with`] of a report the caller gives up, so the pages are made
+/// without a second copy of it; the report comes back (its collections
+/// sorted) once the site is written.
+pub fn render_owned_with(
+    report: Report,
+    theme_dir: Option<&Path>,
+    out: &Path,
+    progress: &Progress,
+) -> Result<Report> {
+    crate::site::render_owned(report, theme_dir, out, progress)
+}
+
 impl Project {
     /// Analyse the project and return the report every output is made from
     /// (analyse → checks → report; see [`report_of`]).

@@ -208,7 +208,18 @@ impl Digest {
             metabolites_with_energy: slim.summary.metabolites_with_energy,
             loops,
             contradictions,
-            reaction_slugs: slim.reactions.into_iter().map(|r| (r.id, r.slug)).collect(),
+            reaction_slugs: slim
+                .reactions
+                .into_iter()
+                .map(|r| {
+                    let slug = if r.slug.is_empty() {
+                        r.id.clone()
+                    } else {
+                        r.slug
+                    };
+                    (r.id, slug)
+                })
+                .collect(),
             xrefs,
         }
     }
@@ -246,10 +257,14 @@ struct SlimSummary {
 #[derive(Deserialize)]
 struct SlimReaction {
     id: String,
+    /// Left out when equal to the id (see `report::json`).
+    #[serde(default)]
     slug: String,
+    #[serde(default)]
     reversible: bool,
     forward_verdict: Option<Verdict>,
     backward_verdict: Option<Verdict>,
+    #[serde(default)]
     scenario_verdicts: Vec<SlimScenarioVerdict>,
     #[serde(default)]
     xrefs: BTreeMap<String, Vec<String>>,
@@ -266,6 +281,7 @@ struct SlimLoops {
     capable: Vec<SlimCapable>,
     #[serde(rename = "loops", deserialize_with = "count_items")]
     loop_count: usize,
+    #[serde(default)]
     truncated: bool,
     energy_cycles: Vec<SlimCycle>,
 }
@@ -277,6 +293,7 @@ struct SlimCapable {
 
 #[derive(Deserialize)]
 struct SlimCycle {
+    #[serde(default)]
     cycle_exists: bool,
 }
 

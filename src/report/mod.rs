@@ -25,8 +25,10 @@ pub use scenario_view::*;
 
 /// Version of the `report.json` shape; bump on breaking changes.
 /// Version 2: `report.json` is compact and leaves out what it repeats
-/// (see `json`).
-pub const REPORT_SCHEMA_VERSION: u32 = 2;
+/// (see `json`). Version 3: it also leaves out fields at their default,
+/// page names equal to the id and what other rows give (equations, uses of
+/// metabolites, loop lists, member energies).
+pub const REPORT_SCHEMA_VERSION: u32 = 3;
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Report {
@@ -39,13 +41,15 @@ pub struct Report {
     pub compartments: Vec<CompartmentView>,
     pub metabolites: Vec<MetaboliteView>,
     pub reactions: Vec<ReactionView>,
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub scenarios: Vec<ScenarioView>,
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub notes: Vec<NoteView>,
     /// Internal loops and energy-generating cycles; `None` when switched off.
     pub loops: Option<LoopsView>,
     /// Every scenario judged as a whole, the model's irreversible
     /// directions first.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub joint_scenarios: Vec<JointScenarioView>,
     /// How far the ΔG data reach (see `report::coverage`).
     #[serde(default)]
@@ -56,7 +60,7 @@ pub struct Report {
     pub headline: Option<HeadlineView>,
     /// Findings sharing one cause, most explained first (see
     /// `report::root_causes`).
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub root_causes: Vec<RootCauseView>,
 }
 
@@ -120,10 +124,12 @@ pub struct MissingMetaboliteView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct LoopsView {
     /// Why the analysis did not finish, if it did not.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub error: Option<String>,
     /// Boundary reactions shut to close the network.
     pub shut_reactions: usize,
     /// Bounds that forced flux, relaxed to include zero.
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub relaxed_bounds: Vec<RelaxedBoundView>,
     /// Reactions left after dead-end pruning / removed by it.
     pub reactions_after_pruning: usize,
@@ -132,21 +138,26 @@ pub struct LoopsView {
     pub capable: Vec<CapableView>,
     pub loops: Vec<LoopView>,
     /// The list stops at `limit` loops before covering every capable reaction.
+    #[serde(default, skip_serializing_if = "json::is_false")]
     pub truncated: bool,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub limit: Option<usize>,
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub uncovered: Vec<String>,
     pub energy_cycles: Vec<EnergyCycleView>,
     /// Currencies without a complete dissipation reaction in the model.
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub not_testable: Vec<String>,
     /// Dissipations not tested because nothing in the model makes or
     /// consumes the currency in that compartment ("atp in e").
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub not_used: Vec<String>,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct RelaxedBoundView {
     pub reaction: String,
+    #[serde(default, skip_serializing_if = "json::plain_slug")]
     pub slug: String,
     pub lower_bound: f64,
     pub upper_bound: f64,
@@ -157,8 +168,11 @@ pub struct RelaxedBoundView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct CapableView {
     pub reaction: String,
+    #[serde(default, skip_serializing_if = "json::plain_slug")]
     pub slug: String,
+    #[serde(default, skip_serializing_if = "json::is_false")]
     pub forward: bool,
+    #[serde(default, skip_serializing_if = "json::is_false")]
     pub backward: bool,
 }
 
@@ -172,17 +186,24 @@ pub struct LoopView {
     /// Metabolites its reactions touch (ids), for the cycle map.
     pub metabolites: Vec<String>,
     /// Every member can also run the other way.
+    #[serde(default, skip_serializing_if = "json::is_false")]
     pub reversible: bool,
     /// S·v = 0 within tolerance and every direction allowed by the bounds.
     pub verified: bool,
     /// Σ coef·ΔrG'° over members with data, its σ, and the members without.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub drg0_sum_kj: Option<f64>,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub sigma_kj: Option<f64>,
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub members_without_data: Vec<String>,
     /// Complete data whose sum is beyond k·σ of zero.
+    #[serde(default, skip_serializing_if = "json::is_false")]
     pub inconsistent: bool,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub constrain: Option<ConstraintView>,
     /// For a reversible loop run backwards.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub constrain_reversed: Option<ConstraintView>,
 }
 
@@ -199,7 +220,11 @@ pub struct LoopMemberView {
     pub equation: String,
     /// Relative flux around the loop: negative = runs backward.
     pub coefficient: f64,
+    /// `drg0_kj` and `sigma_kj`: the reaction's `drg_prime` (left out of
+    /// report.json).
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub drg0_kj: Option<f64>,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub sigma_kj: Option<f64>,
     /// (metabolite id, slug, coefficient in the reaction) for the cycle map.
     #[serde(default, skip_serializing_if = "json::left_out")]
@@ -210,6 +235,7 @@ pub struct LoopMemberView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ConstraintView {
     pub reaction: String,
+    #[serde(default, skip_serializing_if = "json::plain_slug")]
     pub slug: String,
     /// "forward" or "backward": the direction to forbid.
     pub forbid: String,
@@ -218,7 +244,9 @@ pub struct ConstraintView {
     /// "range" (from concentration bounds ± k·σ) or "standard" (ΔrG'° ± k·σ).
     pub basis: String,
     /// Whether forbidding that direction stops the loop (None: not re-checked).
+    #[serde(default, skip_serializing_if = "json::none")]
     pub breaks_loop: Option<bool>,
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub still_looping: Vec<String>,
 }
 
@@ -228,7 +256,7 @@ pub struct EnergyCycleView {
     /// `cycle-<10 hex>` from its member set (the tested dissipation, as
     /// `<currency> in <compartment>`, and the example's reactions; see
     /// `loops::ids`); `None` when no cycle exists.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::none")]
     pub id: Option<String>,
     pub currency: String,
     pub compartment: String,
@@ -240,11 +268,13 @@ pub struct EnergyCycleView {
     /// Page of the cycle (`loops/<slug>.html`), written when it exists.
     #[serde(default)]
     pub slug: String,
+    #[serde(default, skip_serializing_if = "json::is_false")]
     pub cycle_exists: bool,
     /// The example is one reaction, run exactly as the dissipation reversed.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::is_false")]
     pub trivial: bool,
     /// Reactions of an example flux (with the dissipation at 1).
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub example: Vec<LoopMemberView>,
 }
 
@@ -273,9 +303,9 @@ pub struct ProjectInfo {
     pub caution: String,
     /// Metabolite ids the network maps always draw as side labels / as
     /// nodes (the project's `maps:` settings).
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub map_side: Vec<String>,
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub map_main: Vec<String>,
 }
 
@@ -324,12 +354,13 @@ pub struct CompartmentView {
     pub ionic_strength_m: f64,
     pub potential_mv: f64,
     pub temperature_k: f64,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub pmg: Option<f64>,
     /// False when nobody stated its pH or potential (defaults in use).
     #[serde(default = "stated_by_default")]
     pub conditions_stated: bool,
     /// Where its conditions come from, when the settings say.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::none")]
     pub conditions_source: Option<String>,
 }
 
@@ -341,6 +372,7 @@ fn stated_by_default() -> bool {
 pub struct EnergyView {
     pub value_kj: f64,
     pub sigma_kj: f64,
+    #[serde(default, skip_serializing_if = "json::transport_source")]
     pub source: String,
 }
 
@@ -348,32 +380,45 @@ pub struct EnergyView {
 pub struct MetaboliteView {
     pub id: String,
     /// Sanitised file stem for this metabolite's page.
+    #[serde(default, skip_serializing_if = "json::plain_slug")]
     pub slug: String,
     pub name: String,
     pub compartment: String,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub formula: Option<String>,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub charge: Option<i32>,
     /// ΔfG'° at the compartment's conditions, when known.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub dfg_prime: Option<EnergyView>,
     /// Where `dfg_prime` came from: "model", "model-converted", "species",
     /// "library", "fixed" (H+), "fixed-pmg" (free Mg²⁺).
+    #[serde(default, skip_serializing_if = "json::none")]
     pub energy_origin: Option<String>,
     pub concentration_m: RangeView,
     /// True when the range is the project default, not the metabolite's own.
     pub concentration_is_default: bool,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub measured_m: Option<f64>,
     /// "proton", "water" or "" for ordinary metabolites.
+    #[serde(default, skip_serializing_if = "json::empty_text")]
     pub special: String,
+    #[serde(default, skip_serializing_if = "json::empty_map")]
     pub xrefs: BTreeMap<String, Vec<String>>,
     /// Ids of reactions that consume / produce it.
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub consumed_by: Vec<String>,
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub produced_by: Vec<String>,
     /// Built-in library entry matched (by key or cross-reference), if any.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub library_key: Option<String>,
     /// Why available data could not be used, if so.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub energy_problem: Option<String>,
     /// Species-level data and their distribution, when the energy came from
     /// species (model or library).
+    #[serde(default, skip_serializing_if = "json::none")]
     pub species: Option<SpeciesView>,
 }
 
@@ -384,6 +429,7 @@ pub struct SpeciesView {
     pub ph: f64,
     pub ionic_strength_m: f64,
     pub temperature_k: f64,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub pmg: Option<f64>,
     pub mean_hydrogens: f64,
     pub mean_charge: f64,
@@ -405,8 +451,10 @@ pub struct SpeciesEntryView {
     pub hydrogens: u32,
     pub magnesium: u32,
     pub dfg0_kj: f64,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub dfh0_kj: Option<f64>,
     /// Transformed ΔfG'° of the species at the compartment (None if left out).
+    #[serde(default, skip_serializing_if = "json::none")]
     pub dfg_prime_kj: Option<f64>,
     /// Mole fraction at the compartment's conditions.
     pub fraction: f64,
@@ -465,46 +513,64 @@ pub struct ScenarioVerdictView {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct ReactionView {
     pub id: String,
+    #[serde(default, skip_serializing_if = "json::plain_slug")]
     pub slug: String,
     pub name: String,
     /// Equation written with metabolite ids.
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub equation: String,
     pub participants: Vec<ParticipantView>,
+    #[serde(default, skip_serializing_if = "json::is_false")]
     pub reversible: bool,
     pub lower_bound: f64,
     pub upper_bound: f64,
     pub role: String,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub group: Option<String>,
     /// ΔrG'° with σ, when known.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub drg_prime: Option<EnergyView>,
     /// "reaction" (given for the reaction) or "formation" (Σ ν·ΔfG'°).
+    #[serde(default, skip_serializing_if = "json::none")]
     pub energy_origin: Option<String>,
     /// K' = exp(−ΔrG'°/RT).
+    #[serde(default, skip_serializing_if = "json::none")]
     pub k_prime: Option<f64>,
     /// ΔG' range over the allowed concentrations, kJ/mol (no σ allowance).
+    #[serde(default, skip_serializing_if = "json::none")]
     pub dg_range: Option<RangeView>,
     /// ΔG' at measured concentrations (range bounds where unmeasured), when all are measured.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub dg_measured: Option<f64>,
     /// Verdict for the directions the bounds allow.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub forward_verdict: Option<Verdict>,
+    #[serde(default, skip_serializing_if = "json::none")]
     pub backward_verdict: Option<Verdict>,
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub scenario_verdicts: Vec<ScenarioVerdictView>,
     /// Metabolites whose missing data left this reaction without ΔrG'°.
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub missing_data: Vec<String>,
     /// Other reasons for a missing ΔrG'°.
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub missing_reasons: Vec<String>,
     /// Σ ν·ΔfG'° term by term (when ΔrG'° comes from formation energies).
+    #[serde(default, skip_serializing_if = "json::empty")]
     pub energy_terms: Vec<EnergyTermView>,
     /// Proton and electrical terms of a transport step.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub transport: Option<TransportView>,
     /// Directions it can carry flux in the closed network ("forward",
     /// "backward", "both"), when it can.
+    #[serde(default, skip_serializing_if = "json::none")]
     pub loop_capable: Option<String>,
     /// Ids of the listed loops it belongs to.
+    #[serde(default, skip_serializing_if = "json::left_out")]
     pub loops: Vec<String>,
     /// Cross references: namespace (e.g. "kegg.reaction") → ids. Lets a
     /// collection match one reaction across models whose ids differ.
-    #[serde(default)]
+    #[serde(default, skip_serializing_if = "json::empty_map")]
     pub xrefs: BTreeMap<String, Vec<String>>,
 }
 

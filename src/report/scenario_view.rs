@@ -16,6 +16,7 @@ pub struct JointScenarioView {
     /// "feasible", "infeasible" or "not-decided".
     pub verdict: String,
     /// Why it was not decided.
+    #[serde(default, skip_serializing_if = "super::json::none")]
     pub reason: Option<String>,
     /// Active internal reactions with a ΔrG'° (rows of the joint LP).
     pub constrained: usize,
@@ -25,10 +26,12 @@ pub struct JointScenarioView {
     pub mdf: Option<MdfView>,
     pub conflicts: Vec<ConflictSetView>,
     /// The search for further conflicting sets stopped at its limit.
+    #[serde(default, skip_serializing_if = "super::json::is_false")]
     pub more_conflicts_possible: bool,
     /// Cumulative ΔG' along the longest active chain at the MDF concentrations.
     pub profile: Vec<ProfileStepView>,
     /// The loop law on the given flux (absent for the default scenario).
+    #[serde(default, skip_serializing_if = "super::json::none")]
     pub loop_law: Option<LoopLawView>,
 }
 
@@ -74,6 +77,7 @@ pub struct ConflictSetView {
     /// What running them needs: Σ wⱼ·ΔG'ⱼ ≤ this, kJ/mol.
     pub required_kj: f64,
     /// The concentration bounds and σ allowances that bind.
+    #[serde(default, skip_serializing_if = "super::json::empty")]
     pub binding: Vec<BindingView>,
     /// Smallest single changes that would make the set feasible (suggestions).
     pub repairs: Vec<RepairView>,
@@ -118,8 +122,11 @@ pub struct RepairView {
     pub amount: f64,
     /// For a widening, the new bound (mol/L) and its side; for a shift, the
     /// shift in σ of that ΔrG'° when σ > 0.
+    #[serde(default, skip_serializing_if = "super::json::none")]
     pub new_bound_m: Option<f64>,
+    #[serde(default, skip_serializing_if = "super::json::none")]
     pub side: Option<String>,
+    #[serde(default, skip_serializing_if = "super::json::none")]
     pub sigmas: Option<f64>,
     pub text: String,
 }

@@ -35,6 +35,7 @@ pub mod loop_map;
 pub mod map;
 pub mod markdown;
 pub mod overview;
+pub mod report_value;
 pub mod scenario_svg;
 pub mod search;
 pub mod species_chart;
@@ -75,17 +76,30 @@ pub fn render_with_progress(
     out: &Path,
     progress: &Progress,
 ) -> Result<(), Error> {
+    render_owned(report.clone(), theme_dir, out, progress).map(drop)
+}
+
+/// [`render_with_progress`] of a report the caller gives up (its
+/// collections are sorted in place instead of in a copy); the report comes
+/// back, sorted, once the site is written.
+pub fn render_owned(
+    mut report: Report,
+    theme_dir: Option<&Path>,
+    out: &Path,
+    progress: &Progress,
+) -> Result<Report, Error> {
     let mut stage = progress.stage(crate::progress::PAGES, None);
     let theme = Theme::load(theme_dir)?;
     let env = environment(&theme)?;
-    let sorted = sorted_report(report);
-    check_slugs(&sorted)?;
+    check_slugs(&report)?;
 
     let staging = Staging::new(out)?;
-    staging.write(
-        "report.json",
-        crate::report::json::to_json(report).as_bytes(),
-    )?;
+    // report.json in the order of analysis, as `check --format json` prints it.
+    staging.write_with("report.json", |out| {
+        crate::report::json::write_json(&report, out)
+    })?;
+    sort_report(&mut report);
+    let sorted = std::sync::Arc::new(report);
     if let Some(csv) = coverage::missing_csv(&sorted) {
         staging.write(coverage::MISSING_CSV, csv.as_bytes())?;
     }
@@ -127,7 +141,9 @@ pub fn render_with_progress(
     for (path, svg) in files {
         staging.write(&path, svg.as_bytes())?;
     }
-    staging.commit()
+    staging.commit()?;
+    drop(pages);
+    Ok(std::sync::Arc::try_unwrap(sorted).unwrap_or_else(|shared| (*shared).clone()))
 }
 
 /// The minijinja environment with every theme template and our filters.
@@ -188,10 +204,9 @@ pub(crate) fn template_error(theme: &Theme, page_template: &str, err: &minijinja
     }
 }
 
-/// A copy of the report with every collection in a fixed order, so the
-/// same report always gives the same bytes whatever order analysis used.
-fn sorted_report(report: &Report) -> Report {
-    let mut r = report.clone();
+/// Puts every collection of the report in a fixed order, so the same
+/// report always gives the same bytes whatever order analysis used.
+fn sort_report(r: &mut Report) {
     r.findings.sort_by(|a, b| {
         (
             a.severity,
@@ -209,9 +224,9 @@ fn sorted_report(report: &Report) -> Report {
             ))
     });
     // Cause → finding indices follow the order just set.
-    r.root_causes = crate::report::root_causes::root_causes(&r);
+    r.root_causes = crate::report::root_causes::root_causes(r);
     if r.headline.is_none() {
-        r.headline = Some(crate::report::headline::headline(&r));
+        r.headline = Some(crate::report::headline::headline(r));
     }
     r.compartments.sort_by(|a, b| a.id.cmp(&b.id));
     r.scenarios.sort_by(|a, b| a.id.cmp(&b.id));
@@ -255,7 +270,6 @@ fn sorted_report(report: &Report) -> Report {
         loops.uncovered.sort();
         // Energy-cycle tests keep the analysis's order (ATP first).
     }
-    r
 }
 
 /// `loop-2` before `loop-10`: a trailing number compares as a number.
@@ -531,8 +545,9 @@ enum Entity<'r> {
 }
 
 impl<'r> Pages<'r> {
-    fn new(report: &'r Report) -> Pages<'r> {
-        let report_value = Value::from_serialize(report);
+    fn new(shared: &'r std::sync::Arc<Report>) -> Pages<'r> {
+        let report: &'r Report = shared;
+        let report_value = report_value::report_value(std::sync::Arc::clone(shared));
         let index = site_index(report);
         let site_value = Value::from_serialize(&index);
         // Findings of one page as values shared with `site.findings`.

@@ -155,6 +155,24 @@ impl Staging {
         drop(previous);
         Ok(())
     }
+
+    /// Writes `relative` through `fill`, which streams the content into the
+    /// file (buffered), so a large file is never held in memory whole.
+    pub fn write_with(
+        &self,
+        relative: &str,
+        fill: impl FnOnce(&mut dyn io::Write) -> io::Result<()>,
+    ) -> Result<(), Error> {
+        let path = self.dir.path().join(relative);
+        if let Some(folder) = path.parent() {
+            fs::create_dir_all(folder).map_err(|e| Error::output(folder, e))?;
+        }
+        let file = fs::File::create(&path).map_err(|e| Error::output(&path, e))?;
+        let mut out = io::BufWriter::with_capacity(1 << 16, file);
+        fill(&mut out)
+            .and_then(|()| io::Write::flush(&mut out))
+            .map_err(|e| Error::output(&path, e))
+    }
 }
 
 /// Swap two folders in one step.
