@@ -485,7 +485,9 @@ fn library_values_say_where_they_were_printed_and_how_they_were_checked() {
         "provenance missing from the glc_c page"
     );
     let hex = std::fs::read_to_string(site.join("reactions/HEX.html")).unwrap();
-    assert!(hex.contains("Terms from the built-in library: each metabolite’s page says where its species values were printed and how they were checked"));
+    assert!(hex.contains(
+        "Library terms: each metabolite’s page says where its values were printed and how they were checked"
+    ));
 }
 
 #[test]
