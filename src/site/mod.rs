@@ -719,13 +719,15 @@ impl<'r> Pages<'r> {
             ));
         }
         // Always written: it says so when the analysis was switched off.
-        out.push(page(
-            "loops.html",
-            "loops/index.html".into(),
-            "loops",
-            "Loops",
-            context! {},
-        ));
+        let loop_count = report.loops.as_ref().map_or(0, |l| l.loops.len());
+        for p in lists::pages_of("loops", loop_count, lists::LOOP_ROWS_PER_PAGE) {
+            let title = match p.pages {
+                1 => "Loops".to_string(),
+                n => format!("Loops ({} of {n})", p.number),
+            };
+            let extra = context! { pager => Value::from_serialize(&p) };
+            out.push(page("loops.html", p.path, "loops", &title, extra));
+        }
         out
     }
 
