@@ -445,6 +445,7 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
             (*id, zero)
         })
         .collect();
+    let list_pages = findings_pages::split(report);
     let mut findings = Vec::with_capacity(report.findings.len());
     for (index, finding) in report.findings.iter().enumerate() {
         let mut links = Vec::new();
@@ -499,7 +500,7 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
         }
         findings.push(FindingEntry {
             anchor: format!("finding-{}", index + 1),
-            list: findings_pages::list_page(index),
+            list: list_pages.page_name(index),
             finding,
             links,
         });
@@ -719,8 +720,7 @@ impl<'r> Pages<'r> {
             ));
         }
         // Always written: it says so when the analysis was switched off.
-        let loop_count = report.loops.as_ref().map_or(0, |l| l.loops.len());
-        for p in lists::pages_of("loops", loop_count, lists::LOOP_ROWS_PER_PAGE) {
+        for p in lists::loop_list(report) {
             let title = match p.pages {
                 1 => "Loops".to_string(),
                 n => format!("Loops ({} of {n})", p.number),
