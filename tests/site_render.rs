@@ -1918,11 +1918,14 @@ fn loop_index_lists_every_loop_with_its_numbers() {
         table_rows(&index, "data relaxed")[1..],
         [["ATPH", "[2, 1000]", "[0, 1000]"]]
     );
-    // Loop-capable reactions with their directions.
+    // Loop-capable reactions grouped by their directions.
     assert!(text.contains("Loop-capable reactions (4) 4 reactions can carry flux"));
-    assert!(text.contains("HAT both directions"));
-    assert!(text.contains("UNK forward"));
-    assert!(text.contains("R_&lt;b&gt;&amp;&quot;&#x27;..&#x2f;x backward"));
+    assert!(
+        text.contains("Both directions (1) HAT Forward only"),
+        "{text}"
+    );
+    assert!(text.contains("UNK"));
+    assert!(text.contains("Backward only (1) R_&lt;b&gt;&amp;&quot;&#x27;..&#x2f;x"));
 
     // loop-2 before loop-10 (numbers compare as numbers); members in the
     // order they pass metabolites on (ATPH → HAT → the hostile reaction,

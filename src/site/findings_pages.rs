@@ -9,8 +9,11 @@ use crate::report::{Report, Severity};
 use serde::Serialize;
 use std::collections::{BTreeMap, BTreeSet};
 
-/// Rows per page of the full list.
+/// Rows per page of the full list, at most.
 pub const PER_PAGE: usize = 250;
+/// Bytes of rows a page of the full list holds, about: a finding about a
+/// long loop names every member, so such pages hold fewer rows.
+pub const PAGE_BUDGET: usize = 350_000;
 /// Example rows shown in each collapsed group of `findings.html`.
 pub const SHOWN: usize = 20;
 /// Root causes shown under "what to fix first" on the overview.
@@ -18,15 +21,31 @@ pub const FIX_FIRST: usize = 5;
 /// Path of the filter data, from the site root.
 pub const DATA_JS: &str = "findings/data.js";
 
-/// File name of the page of the full list (in `findings/`) holding
-/// finding `index` (0-based).
-pub fn list_page(index: usize) -> String {
-    format!("list-{}.html", index / PER_PAGE + 1)
+/// How the full list is split into pages: the finding range of each page.
+pub struct Split(Vec<(usize, usize)>);
+
+/// The pages of the full list: at most [`PER_PAGE`] rows and about
+/// [`PAGE_BUDGET`] bytes each (estimated from message, subjects and
+/// evidence), at least one page so the link always lands.
+pub fn split(report: &Report) -> Split {
+    let sizes = report.findings.iter().map(|f| {
+        let subjects: usize = f.subjects.iter().map(|s| 2 * s.len() + 40).sum();
+        400 + f.message.len() + subjects + 120 * f.evidence.len()
+    });
+    Split(super::lists::split_by_size(sizes, PER_PAGE, PAGE_BUDGET, 0))
 }
 
-/// Number of list pages (at least one, so the link always lands).
-pub fn list_pages(findings: usize) -> usize {
-    findings.div_ceil(PER_PAGE).max(1)
+impl Split {
+    /// Number of list pages.
+    pub fn pages(&self) -> usize {
+        self.0.len()
+    }
+
+    /// File name of the page (in `findings/`) holding finding `index`.
+    pub fn page_name(&self, index: usize) -> String {
+        let page = self.0.partition_point(|&(_, end)| end <= index);
+        format!("list-{}.html", page.min(self.0.len() - 1) + 1)
+    }
 }
 
 #[derive(Serialize)]
@@ -116,6 +135,7 @@ type ByCause = BTreeMap<Option<usize>, Vec<usize>>;
 
 pub fn grouped(report: &Report) -> Grouped {
     let cause = cause_of(report);
+    let pages = split(report);
     let mut severities = Vec::new();
     for (severity, heading) in [
         (Severity::Error, "Errors"),
@@ -150,7 +170,7 @@ pub fn grouped(report: &Report) -> Grouped {
                 KindGroup {
                     kind: kind.to_string(),
                     count: parts.iter().map(|p| p.count).sum(),
-                    list: list_page(first),
+                    list: pages.page_name(first),
                     first,
                     parts,
                 }
@@ -168,7 +188,7 @@ pub fn grouped(report: &Report) -> Grouped {
     Grouped {
         severities,
         causes: causes(report),
-        list_pages: list_pages(report.findings.len()),
+        list_pages: pages.pages(),
         per_page: PER_PAGE,
     }
 }
@@ -179,6 +199,7 @@ pub fn grouped(report: &Report) -> Grouped {
 /// titles. Strings are JSON-escaped; the script inserts them as text.
 pub fn data_js(report: &Report) -> String {
     let cause = cause_of(report);
+    let pages = split(report);
     let compartments: BTreeMap<&str, &str> = report
         .metabolites
         .iter()
@@ -210,7 +231,7 @@ pub fn data_js(report: &Report) -> String {
                     places.insert(*c);
                 }
             }
-            let page = list_page(k);
+            let page = pages.page_name(k);
             serde_json::json!([
                 f.severity.slug(),
                 f.kind,
@@ -294,13 +315,16 @@ pub struct ListPage {
 
 pub fn list(report: &Report) -> Vec<ListPage> {
     let total = report.findings.len();
-    let pages = list_pages(total);
-    (0..pages)
-        .map(|p| ListPage {
+    let Split(ranges) = split(report);
+    let pages = ranges.len();
+    ranges
+        .into_iter()
+        .enumerate()
+        .map(|(p, (start, end))| ListPage {
             number: p + 1,
             pages,
-            start: p * PER_PAGE,
-            end: ((p + 1) * PER_PAGE).min(total),
+            start,
+            end,
             total,
         })
         .collect()
@@ -313,10 +337,34 @@ mod tests {
     #[test]
     fn list_pages_hold_per_page_rows() {
         // 0 findings: still one (empty) page; 250 fit one page, 251 need two.
-        assert_eq!(list_pages(0), 1);
-        assert_eq!(list_pages(PER_PAGE), 1);
-        assert_eq!(list_pages(PER_PAGE + 1), 2);
-        assert_eq!(list_page(0), "list-1.html");
-        assert_eq!(list_page(PER_PAGE), "list-2.html");
+        let split = Split(super::super::lists::split_by_size(
+            [100; 0],
+            PER_PAGE,
+            PAGE_BUDGET,
+            0,
+        ));
+        assert_eq!(
+            (split.pages(), split.page_name(0)),
+            (1, "list-1.html".into())
+        );
+        let split = Split(super::super::lists::split_by_size(
+            [100; 251],
+            PER_PAGE,
+            PAGE_BUDGET,
+            0,
+        ));
+        assert_eq!(split.pages(), 2);
+        assert_eq!(split.page_name(0), "list-1.html");
+        assert_eq!(split.page_name(PER_PAGE - 1), "list-1.html");
+        assert_eq!(split.page_name(PER_PAGE), "list-2.html");
+        // Long rows: fewer a page.
+        let split = Split(super::super::lists::split_by_size(
+            [5_000; 251],
+            PER_PAGE,
+            PAGE_BUDGET,
+            0,
+        ));
+        assert_eq!(split.pages(), 4);
+        assert_eq!(split.page_name(70), "list-2.html");
     }
 }

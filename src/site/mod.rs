@@ -449,6 +449,7 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
             (*id, zero)
         })
         .collect();
+    let list_pages = findings_pages::split(report);
     let mut findings = Vec::with_capacity(report.findings.len());
     for (index, finding) in report.findings.iter().enumerate() {
         let mut links = Vec::new();
@@ -503,7 +504,7 @@ fn site_index(report: &Report) -> SiteIndex<'_> {
         }
         findings.push(FindingEntry {
             anchor: format!("finding-{}", index + 1),
-            list: findings_pages::list_page(index),
+            list: list_pages.page_name(index),
             finding,
             links,
         });
@@ -733,13 +734,14 @@ impl<'r> Pages<'r> {
             ));
         }
         // Always written: it says so when the analysis was switched off.
-        out.push(page(
-            "loops.html",
-            "loops/index.html".into(),
-            "loops",
-            "Loops",
-            context! {},
-        ));
+        for p in lists::loop_list(report) {
+            let title = match p.pages {
+                1 => "Loops".to_string(),
+                n => format!("Loops ({} of {n})", p.number),
+            };
+            let extra = context! { pager => Value::from_serialize(&p) };
+            out.push(page("loops.html", p.path, "loops", &title, extra));
+        }
         out
     }
 
