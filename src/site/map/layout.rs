@@ -22,7 +22,8 @@
 //! 5. x by pulling each node towards the mean x of its neighbours, then a
 //!    left-to-right pass that restores the minimum gap (so boxes of one
 //!    layer never overlap); layers are stacked with a fixed gap, so boxes
-//!    of different layers never overlap either.
+//!    of different layers never overlap either; every left edge is then
+//!    moved to a whole number (the gaps kept), for short SVG coordinates.
 //!
 //! Everything is index-ordered (no hash maps): the same graph always gives
 //! the same coordinates.
@@ -151,7 +152,8 @@ pub fn layered<E>(graph: &DiGraph<Size, E>) -> Layout {
         layer_y.push(y + h / 2.0);
         y += h + LAYER_GAP;
     }
-    let x = x_coordinates(&order, &widths, &up, &down);
+    let mut x = x_coordinates(&order, &widths, &up, &down);
+    snap_lefts(&order, &widths, &mut x);
     let min_left = (0..total)
         .map(|v| x[v] - widths[v] / 2.0)
         .fold(f64::INFINITY, f64::min);
@@ -427,6 +429,19 @@ fn x_coordinates(
         }
     }
     x
+}
+
+/// Moves every box to a whole-number left edge (short coordinates in the
+/// SVG), keeping the order and at least [`NODE_GAP`] between neighbours.
+fn snap_lefts(order: &[Vec<usize>], widths: &[f64], x: &mut [f64]) {
+    for layer in order {
+        let mut min_left = f64::NEG_INFINITY;
+        for &v in layer {
+            let left = (x[v] - widths[v] / 2.0).round().max(min_left);
+            x[v] = left + widths[v] / 2.0;
+            min_left = (left + widths[v] + NODE_GAP).ceil();
+        }
+    }
 }
 
 /// Puts the nodes of one layer as near their desired x as the order and the

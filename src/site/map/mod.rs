@@ -148,6 +148,12 @@ pub struct MapContext<'a> {
     pub reactions_of: HashMap<&'a str, Vec<&'a str>>,
     /// (errors, warnings) among the findings naming each reaction.
     pub counts: HashMap<&'a str, (usize, usize)>,
+    /// Position of each reaction in `report.reactions`.
+    index: HashMap<&'a str, usize>,
+    /// Labels and hover text of each reaction on verdict maps, made the
+    /// first time a map needs them: a reaction of a genome-scale model is
+    /// on a dozen neighbourhood maps.
+    texts: Vec<std::sync::OnceLock<render::ReactionText>>,
 }
 
 impl<'a> MapContext<'a> {
@@ -204,7 +210,22 @@ impl<'a> MapContext<'a> {
             main_of,
             reactions_of,
             counts,
+            index: report
+                .reactions
+                .iter()
+                .enumerate()
+                .map(|(i, r)| (r.id.as_str(), i))
+                .collect(),
+            texts: (0..report.reactions.len())
+                .map(|_| std::sync::OnceLock::new())
+                .collect(),
         }
+    }
+
+    /// Labels and hover text of a reaction on verdict maps (made once).
+    /// Panics for an id that is not a reaction of the report.
+    pub(crate) fn reaction_text(&self, rid: &str) -> &render::ReactionText {
+        self.texts[self.index[rid]].get_or_init(|| render::ReactionText::for_verdicts(self, rid))
     }
 
     /// Reactions within `steps` steps of `start` (a reaction step goes
