@@ -420,12 +420,11 @@ fn neighbourhood_maps_are_capped_and_say_what_they_leave_out() {
     let wide = pages::reaction_neighbourhood(&ctx, "WIDE").unwrap();
     assert_eq!(count(&wide, false), NEIGHBOURHOOD_METABOLITES);
     assert!(wide.svg.contains("+9 more not drawn"), "{}", wide.svg);
-    // Hover text once per reaction and metabolite, on its link; a small
-    // map shortens long equations (the page has them in full).
-    assert_eq!(
-        wide.svg.matches("<title>").count(),
-        1 + count(&wide, true) + count(&wide, false)
-    );
+    // Hover text once per reaction, on its link (the map's own title
+    // first); these metabolites have no names, so their boxes add none. A
+    // small map shortens long equations (the page has them in full).
+    assert_eq!(wide.svg.matches("<title>").count(), 1 + count(&wide, true));
+    assert_eq!(wide.svg.matches("class=\"r ").count(), count(&wide, true));
     let equation = &report
         .reactions
         .iter()
@@ -521,4 +520,52 @@ fn every_conflicting_set_has_a_network_map_on_its_scenario_page() {
     // At dusk the flux overlay is used: arrows sized by |flux|.
     let dusk = std::fs::read_to_string(out.join("scenarios/dusk.html")).unwrap();
     assert!(dusk.contains("arrow width ∝ |flux|"));
+}
+
+#[test]
+fn hover_texts_give_id_equation_and_energy_range() {
+    let report = demo_report();
+    let ctx = MapContext::new(&report);
+    let escape = |s: &str| {
+        s.replace('&', "&amp;")
+            .replace('<', "&lt;")
+            .replace('>', "&gt;")
+    };
+    for r in &report.reactions {
+        let near = pages::reaction_neighbourhood(&ctx, &r.id).unwrap();
+        // The subject's link: its hover text comes first inside it.
+        let open = near.svg.find(" sj\"><title>").expect("subject drawn") + 12;
+        let title = &near.svg[open..open + near.svg[open..].find("</title>").unwrap()];
+        let lines: Vec<&str> = title.split('\n').collect();
+        assert!(lines[0].starts_with(&escape(&r.id)), "{title}");
+        assert_eq!(lines[1], escape(&r.equation), "{title}");
+        match &r.dg_range {
+            Some(_) => assert!(
+                lines[2].starts_with("ΔG′ ")
+                    && lines[2].contains(" to ")
+                    && lines[2].contains("kJ/mol"),
+                "{title}"
+            ),
+            None => assert!(lines[2].starts_with("ΔG′ unknown"), "{title}"),
+        }
+    }
+    // A metabolite box's hover text is its name (the id is its label).
+    let pyk = pages::reaction_neighbourhood(&ctx, "PYK").unwrap();
+    let name = &report
+        .metabolites
+        .iter()
+        .find(|m| m.id == "pyr_c")
+        .unwrap()
+        .name;
+    assert!(!name.is_empty());
+    assert!(
+        pyk.svg.contains(&format!(
+            "<a href=\"../metabolites/pyr_c.html\" class=\"m\"><title>{}</title>",
+            escape(name)
+        )),
+        "{}",
+        pyk.svg
+    );
+    // Links to pages of the same folder are short.
+    assert!(pyk.svg.contains("<a href=\"PYK.html\" class=\"r "));
 }

@@ -33,11 +33,11 @@
 
 use super::layout::{self, Placed, Size};
 use super::{reaction_verdict, MapContext, MapSpec, MapVerdict, Overlay};
+use crate::report::ReactionView;
 use crate::site::format::energy;
 use crate::site::species_chart::shorten;
 use minijinja::HtmlEscape;
 use petgraph::graph::{DiGraph, NodeIndex};
-use std::collections::BTreeMap;
 use std::fmt::Write as _;
 
 /// Rough advance of one character at the 12 px of the map; generous, so
@@ -196,8 +196,8 @@ fn escaped(s: &str) -> String {
     HtmlEscape(s).to_string()
 }
 
-/// `<text [class] x y>` with escaped-ready `content` (already escaped).
-fn text_el(out: &mut String, x: f64, y: f64, class: &str, content_html: &str) {
+/// `<text [class] x y>`.
+fn text_open(out: &mut String, x: f64, y: f64, class: &str) {
     out.push_str("<text");
     if !class.is_empty() {
         let _ = write!(out, " class=\"{class}\"");
@@ -207,6 +207,11 @@ fn text_el(out: &mut String, x: f64, y: f64, class: &str, content_html: &str) {
     out.push_str("\" y=\"");
     num(out, y);
     out.push_str("\">");
+}
+
+/// `<text [class] x y>` around `content_html` (already escaped).
+fn text_el(out: &mut String, x: f64, y: f64, class: &str, content_html: &str) {
+    text_open(out, x, y, class);
     out.push_str(content_html);
     out.push_str("</text>");
 }
@@ -271,10 +276,10 @@ pub struct ReactionText {
 }
 
 impl ReactionText {
-    /// Labels of reaction `rid` with its side compounds in the direction
-    /// `sign` (+1 as written), with the verdict `verdict`.
-    fn new(ctx: &MapContext<'_>, rid: &str, sign: f64, verdict: Option<MapVerdict>) -> Self {
-        let r = ctx.reactions[rid];
+    /// Labels of the reaction at position `i` with its side compounds in
+    /// the direction `sign` (+1 as written), with the verdict `verdict`.
+    fn new(ctx: &MapContext<'_>, i: usize, sign: f64, verdict: Option<MapVerdict>) -> Self {
+        let r = &ctx.report.reactions[i];
         let mut first = shorten(&r.id, ID_CHARS);
         if !r.loops.is_empty() {
             first.push(' ');
@@ -307,17 +312,53 @@ impl ReactionText {
     }
 
     /// The cached labels of a verdict map.
-    pub(crate) fn for_verdicts(ctx: &MapContext<'_>, rid: &str) -> Self {
-        let verdict = reaction_verdict(ctx.reactions[rid]);
-        let mut text = ReactionText::new(ctx, rid, 1.0, Some(verdict));
-        text.hover_small = reaction_hover(ctx, rid, Overlay::Verdicts, true);
+    pub(crate) fn for_verdicts(ctx: &MapContext<'_>, i: usize) -> Self {
+        let r = &ctx.report.reactions[i];
+        let mut text = ReactionText::new(ctx, i, 1.0, Some(reaction_verdict(r)));
+        text.hover_small = reaction_hover(ctx, r, Overlay::Verdicts, true);
         text
     }
 }
 
+/// The label and hover text of a metabolite box, computed once per
+/// metabolite ([`MapContext::metabolite_text`]).
+#[derive(Debug, Clone)]
+pub struct MetaboliteText {
+    /// The id (shortened), escaped, and its characters.
+    label_html: String,
+    label_chars: usize,
+    /// Hover text, escaped: the name (and the id when the label shortens
+    /// it); empty when it would only repeat the label.
+    hover: String,
+}
+
+impl MetaboliteText {
+    pub(crate) fn new(ctx: &MapContext<'_>, j: u32) -> Self {
+        let (id, view) = ctx.metabolite_at(j);
+        let label = shorten(id, ID_CHARS);
+        let name = view.map_or("", |v| v.name.as_str());
+        let shortened = label != id;
+        let mut hover = String::new();
+        if shortened {
+            esc(&mut hover, id);
+        }
+        if !name.is_empty() && name != id {
+            if shortened {
+                hover.push_str(" — ");
+            }
+            esc(&mut hover, name);
+        }
+        MetaboliteText {
+            label_html: escaped(&label),
+            label_chars: label.chars().count(),
+            hover,
+        }
+    }
+}
+
 /// One reaction as it is drawn on one map.
-struct ReactionNode<'m, 't> {
-    rid: &'m str,
+struct ReactionNode<'r, 't> {
+    view: &'r ReactionView,
     node: usize,
     text: std::borrow::Cow<'t, ReactionText>,
     /// "+3 more not drawn".
@@ -328,51 +369,65 @@ struct ReactionNode<'m, 't> {
     width: Option<f64>,
 }
 
+/// Where a link from the map's page to `folder/slug.html` goes.
+fn href(out: &mut String, spec: &MapSpec<'_>, folder: &str, slug: &str) {
+    if spec.here != folder {
+        out.push_str(spec.root);
+        out.push_str(folder);
+        out.push('/');
+    }
+    out.push_str(slug);
+    out.push_str(".html");
+}
+
 /// Draws one map of reactions.
 pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
-    let scenario_flux = |r: &str| -> Option<(f64, MapVerdict)> {
+    let scenario_flux = |r: &ReactionView| -> Option<(f64, MapVerdict)> {
         let Overlay::Scenario(s) = spec.overlay else {
             return None;
         };
-        let view = ctx.reactions.get(r)?;
-        view.scenario_verdicts
+        r.scenario_verdicts
             .iter()
             .find(|v| v.scenario == s && v.flux != 0.0)
             .map(|v| (v.flux, MapVerdict::from_verdict(v.verdict)))
     };
-    let max_flux = spec
+    let positions: Vec<usize> = spec
         .reactions
         .iter()
-        .filter_map(|r| scenario_flux(r))
+        .filter_map(|r| ctx.reaction_index(r))
+        .collect();
+    let max_flux = positions
+        .iter()
+        .filter_map(|&i| scenario_flux(&ctx.report.reactions[i]))
         .map(|(f, _)| f.abs())
         .fold(0.0, f64::max);
     let small = spec.max_metabolites.is_some();
 
     // Nodes: reactions in the given order, then their main metabolites.
-    let capacity = spec.reactions.len() * 3;
+    let capacity = positions.len() * 3;
     let mut graph: DiGraph<Size, ()> = DiGraph::with_capacity(capacity, capacity);
-    let mut reactions: Vec<ReactionNode> = Vec::with_capacity(spec.reactions.len());
-    // Metabolite nodes in order of appearance: (id, node).
-    let mut metabolites: Vec<(&str, usize)> = Vec::new();
-    let mut metabolite_node: BTreeMap<&str, usize> = BTreeMap::new();
+    let mut reactions: Vec<ReactionNode> = Vec::with_capacity(positions.len());
+    // Metabolite nodes in order of appearance: (metabolite, node).
+    let mut metabolites: Vec<(u32, usize)> = Vec::with_capacity(capacity);
+    let node_of = |metabolites: &[(u32, usize)], m: u32| {
+        metabolites.iter().find(|&&(k, _)| k == m).map(|&(_, n)| n)
+    };
     // Edge list: (tail, head, index into `reactions`).
     let mut edges: Vec<(usize, usize, usize)> = Vec::with_capacity(capacity);
-    let mut drawn_main: Vec<(&str, f64)> = Vec::new();
-    for &rid in &spec.reactions {
-        let Some(r) = ctx.reactions.get(rid) else {
-            continue;
-        };
-        let flux = scenario_flux(rid);
+    let mut drawn_main: Vec<(u32, f64)> = Vec::new();
+    for &i in &positions {
+        let r = &ctx.report.reactions[i];
+        let flux = scenario_flux(r);
         let sign = flux.map_or(1.0, |(f, _)| f.signum());
         let (text, vclass, width) = match spec.overlay {
             Overlay::Verdicts => {
-                let t = ctx.reaction_text(rid);
+                let t = ctx.reaction_text(i);
                 let v = t.verdict.unwrap_or(MapVerdict::NoData);
                 (std::borrow::Cow::Borrowed(t), class(v), None)
             }
             Overlay::Scenario(_) => {
                 let v = flux.map(|(_, v)| v);
-                let t = ReactionText::new(ctx, rid, sign, v);
+                let t = ReactionText::new(ctx, i, sign, v);
                 let (c, w) = match flux {
                     Some((f, v)) => (
                         class(v),
@@ -385,13 +440,13 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
         };
         // On a small map, metabolites beyond the cap are left out; the
         // reaction box says how many.
-        let main: &[(&str, f64)] = ctx.main_of.get(rid).map_or(&[], Vec::as_slice);
+        let main = ctx.main_at(i);
         drawn_main.clear();
         let mut new_boxes = 0;
         for &(m, c) in main {
-            let known = metabolite_node.contains_key(m);
+            let known = node_of(&metabolites, m).is_some();
             match spec.max_metabolites {
-                Some(cap) if !known && metabolite_node.len() + new_boxes >= cap => {}
+                Some(cap) if !known && metabolites.len() + new_boxes >= cap => {}
                 _ => {
                     if !known && !drawn_main.iter().any(|&(d, _)| d == m) {
                         new_boxes += 1;
@@ -410,17 +465,22 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
         let node = graph.add_node(box_size(widest, lines)).index();
         let k = reactions.len();
         for &(m, coefficient) in &drawn_main {
-            let mnode = *metabolite_node.entry(m).or_insert_with(|| {
-                let mut chars = shorten(m, ID_CHARS).chars().count();
-                let mut lines = 1;
-                if let Some(links) = spec.elsewhere.get(m) {
-                    lines += 1;
-                    chars = chars.max(more_line(links).chars().count());
+            let mnode = match node_of(&metabolites, m) {
+                Some(n) => n,
+                None => {
+                    let mut chars = ctx.metabolite_text(m).label_chars;
+                    let mut lines = 1;
+                    if !spec.elsewhere.is_empty() {
+                        if let Some(links) = spec.elsewhere.get(ctx.metabolite_at(m).0) {
+                            lines += 1;
+                            chars = chars.max(more_line(links).chars().count());
+                        }
+                    }
+                    let n = graph.add_node(box_size(chars, lines)).index();
+                    metabolites.push((m, n));
+                    n
                 }
-                let index = graph.add_node(box_size(chars, lines)).index();
-                metabolites.push((m, index));
-                index
-            });
+            };
             if coefficient * sign < 0.0 {
                 edges.push((mnode, node, k));
             } else {
@@ -428,7 +488,7 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
             }
         }
         reactions.push(ReactionNode {
-            rid: r.id.as_str(),
+            view: r,
             node,
             text,
             more,
@@ -443,24 +503,25 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
 
     // Drawing: each reaction (arrows, box, labels) in one link, then the
     // metabolites, so arrow heads end on top of the boxes they point at.
-    let root = spec.root;
     let mut links = Vec::with_capacity(graph.node_count());
     let mut drawn_nodes = Vec::with_capacity(graph.node_count());
-    let mut body = String::with_capacity(700 + 450 * graph.node_count());
+    let mut body = String::with_capacity(600 + 250 * graph.node_count());
     let mut e = 0;
     for (k, rn) in reactions.iter().enumerate() {
-        let r = ctx.reactions[rn.rid];
-        let href = format!("{root}reactions/{}.html", r.slug);
-        let _ = write!(body, "<a href=\"{href}\" class=\"r {}", rn.class);
-        links.push(href);
-        if spec.subject == Some(rn.rid) {
+        let r = rn.view;
+        body.push_str("<a href=\"");
+        let at = body.len();
+        href(&mut body, spec, "reactions", &r.slug);
+        links.push(body[at..].to_string());
+        let _ = write!(body, "\" class=\"r {}", rn.class);
+        if spec.subject == Some(r.id.as_str()) {
             body.push_str(" sj");
         }
         body.push_str("\"><title>");
         if small {
             body.push_str(&rn.text.hover_small);
         } else {
-            body.push_str(&reaction_hover(ctx, rn.rid, spec.overlay, false));
+            body.push_str(&reaction_hover(ctx, r, spec.overlay, false));
         }
         body.push_str("</title>");
         // The arrows: one path of lines, one of heads.
@@ -504,17 +565,12 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
             baseline(i)
         };
         let y = line(0, rn.text.first_chars);
-        match rn.text.verdict {
-            Some(v) => {
-                let content = format!(
-                    "<tspan class=\"g\">{}</tspan> {}",
-                    glyph(v),
-                    rn.text.id_html
-                );
-                text_el(&mut body, x, y, "", &content);
-            }
-            None => text_el(&mut body, x, y, "", &rn.text.id_html),
+        text_open(&mut body, x, y, "");
+        if let Some(v) = rn.text.verdict {
+            let _ = write!(body, "<tspan class=\"g\">{}</tspan> ", glyph(v));
         }
+        body.push_str(&rn.text.id_html);
+        body.push_str("</text>");
         let mut i = 1;
         if let Some(side) = &rn.text.side_html {
             let y = line(i, rn.text.side_chars);
@@ -527,7 +583,7 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
         }
         body.push_str("</a>");
         drawn_nodes.push(DrawnNode {
-            id: rn.rid.to_string(),
+            id: r.id.clone(),
             is_reaction: true,
             placed: p,
             labels,
@@ -535,41 +591,42 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
     }
     for &(m, node) in &metabolites {
         let p = placed.nodes[node];
-        let view = ctx.metabolites.get(m);
-        let subject = if spec.subject == Some(m) { " sj" } else { "" };
+        let (id, view) = ctx.metabolite_at(m);
+        let text = ctx.metabolite_text(m);
+        let subject = if spec.subject == Some(id) { " sj" } else { "" };
         // No page, no link.
-        let href = view.map(|x| format!("{root}metabolites/{}.html", x.slug));
-        match &href {
-            Some(h) => {
-                let _ = write!(body, "<a href=\"{h}\" class=\"m{subject}\">");
+        match view {
+            Some(v) => {
+                body.push_str("<a href=\"");
+                let at = body.len();
+                href(&mut body, spec, "metabolites", &v.slug);
+                links.push(body[at..].to_string());
+                let _ = write!(body, "\" class=\"m{subject}\">");
             }
             None => {
                 let _ = write!(body, "<g class=\"m{subject}\">");
             }
         }
-        body.push_str("<title>");
-        esc(&mut body, m);
-        if let Some(name) = view.map(|x| x.name.as_str()).filter(|n| !n.is_empty()) {
-            body.push_str(" — ");
-            esc(&mut body, name);
+        if !text.hover.is_empty() {
+            let _ = write!(body, "<title>{}</title>", text.hover);
         }
-        body.push_str("</title>");
         rect_el(&mut body, &p, Some(10));
-        let label = shorten(m, ID_CHARS);
         let x = p.left() + PAD_X;
-        let mut labels = vec![(x, p.top() + PAD_Y, text_width(&label), LINE_HEIGHT)];
+        let mut labels = vec![(
+            x,
+            p.top() + PAD_Y,
+            text.label_chars as f64 * CHAR_WIDTH,
+            LINE_HEIGHT,
+        )];
         text_el(
             &mut body,
             x,
             p.top() + PAD_Y + LINE_HEIGHT - 3.0,
             "",
-            &escaped(&label),
+            &text.label_html,
         );
-        body.push_str(if href.is_some() { "</a>" } else { "</g>" });
-        if let Some(h) = href {
-            links.push(h);
-        }
-        if let Some(targets) = spec.elsewhere.get(m) {
+        body.push_str(if view.is_some() { "</a>" } else { "</g>" });
+        if let Some(targets) = spec.elsewhere.get(id) {
             // Links to the other parts, each its own <a>, outside the
             // metabolite's link.
             let top = p.top() + PAD_Y + LINE_HEIGHT;
@@ -587,7 +644,7 @@ pub fn draw(ctx: &MapContext<'_>, spec: &MapSpec<'_>) -> Drawn {
             }
         }
         drawn_nodes.push(DrawnNode {
-            id: m.to_string(),
+            id: id.to_string(),
             is_reaction: false,
             placed: p,
             labels,
@@ -757,8 +814,12 @@ fn box_size(widest_chars: usize, lines: usize) -> Size {
 /// Hover text of a reaction, escaped: id and name, equation, ΔG' range,
 /// how it is drawn, findings. `small`: long names and equations shortened
 /// (the page has them in full).
-fn reaction_hover(ctx: &MapContext<'_>, rid: &str, overlay: Overlay<'_>, small: bool) -> String {
-    let r = ctx.reactions[rid];
+fn reaction_hover(
+    ctx: &MapContext<'_>,
+    r: &ReactionView,
+    overlay: Overlay<'_>,
+    small: bool,
+) -> String {
     let mut s = String::with_capacity(64 + r.name.len() + r.equation.len());
     // Model strings escaped; numbers and our own words are safe as they are.
     let model = |s: &mut String, text: &str| {
@@ -808,7 +869,7 @@ fn reaction_hover(ctx: &MapContext<'_>, rid: &str, overlay: Overlay<'_>, small: 
             }
         }
     }
-    let (errors, warnings) = ctx.counts.get(rid).copied().unwrap_or_default();
+    let (errors, warnings) = ctx.counts.get(r.id.as_str()).copied().unwrap_or_default();
     let plural = |n: usize| if n == 1 { "" } else { "s" };
     let mut sep = "; ";
     if errors > 0 {
@@ -862,6 +923,13 @@ fn edge_path(out: &mut String, a: &Placed, b: &Placed, bends: &[(f64, f64)], hea
         // Control points on a whole number: half a unit makes no visible
         // difference to the curve.
         let mid = ((p.1 + q.1) / 2.0).round();
+        if (p.0 - q.0).abs() < 0.05 {
+            // A straight drop.
+            out.push('V');
+            num(out, q.1);
+            p = q;
+            continue;
+        }
         out.push('C');
         for (i, (x, y)) in [(p.0, mid), (q.0, mid), (q.0, q.1)].into_iter().enumerate() {
             if i > 0 {
@@ -1271,6 +1339,9 @@ mod tests {
         // With a head the line stops 8 short of the box (1 inside the
         // head); the head's tip touches the box.
         assert_eq!(path(&a, &b, true), "M50,20C50,51 80,51 80,82");
+        // Straight below: a vertical line.
+        let below = Placed { x: 50.0, ..b };
+        assert_eq!(path(&a, &below, false), "M50,20V90");
         let mut head = String::new();
         arrow_head(&mut head, &a, &b, &[]);
         assert_eq!(head, "M76,81h8l-4,9z");
