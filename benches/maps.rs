@@ -64,7 +64,7 @@ fn main() {
         let mut group_time = Duration::MAX;
         let mut nbhd_time = Duration::MAX;
         let mut sizes = (0, 0, 0);
-        let mut bytes = 0usize;
+        let mut bytes = (0usize, 0usize, 0usize);
         let mut maps = 0usize;
         let mut cpu = Vec::new();
         for _ in 0..runs {
@@ -73,12 +73,17 @@ fn main() {
             let ctx = MapContext::new(&report);
             let site = pages::group_maps(&ctx);
             let after_groups = start.elapsed();
-            let mut b =
+            let group_bytes =
                 site.overview_svg.len() + site.pages.iter().map(|p| p.svg.len()).sum::<usize>();
             // As the site draws them: in parallel on rayon's pool.
             let near = pages::neighbourhoods(&ctx);
-            b += near.reactions.values().map(String::len).sum::<usize>();
-            b += near.metabolites.values().map(String::len).sum::<usize>();
+            let near_bytes = near.reactions.values().map(String::len).sum::<usize>()
+                + near.metabolites.values().map(String::len).sum::<usize>();
+            let b = (
+                group_bytes,
+                near_bytes,
+                near.reactions.len() + near.metabolites.len(),
+            );
             let total = start.elapsed();
             if let (Some(a), Some(z)) = (cpu_start, cpu_seconds()) {
                 cpu.push(z - a);
@@ -104,7 +109,7 @@ fn main() {
         // Median CPU time of the runs.
         let cpu_median = cpu.get(cpu.len() / 2).copied();
         println!(
-            "{name:<16} {:>9} {:>7} {:>6} {:>9} {:>10} {:>10} {:>10} {:>10} {:>8} {:>8} {:>7}   ({:.1} MB of SVG, {:.2} kB per map)",
+            "{name:<16} {:>9} {:>7} {:>6} {:>9} {:>10} {:>10} {:>10} {:>10} {:>8} {:>8} {:>7}   (SVG: groups {:.1} MB, neighbourhoods {:.1} MB = {:.2} kB per map)",
             report.reactions.len(),
             sizes.0,
             sizes.1,
@@ -116,8 +121,9 @@ fn main() {
             maps,
             cpu_median.map_or("?".into(), |c| format!("{:.0}", c * 1000.0)),
             cpu_median.map_or("?".into(), |c| format!("{:.0}", c * 1e6 / maps.max(1) as f64)),
-            bytes as f64 / 1e6,
-            bytes as f64 / 1e3 / maps.max(1) as f64
+            bytes.0 as f64 / 1e6,
+            bytes.1 as f64 / 1e6,
+            bytes.1 as f64 / 1e3 / bytes.2.max(1) as f64
         );
     }
 }

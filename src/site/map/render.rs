@@ -848,6 +848,8 @@ fn reaction_hover(
         None => s.push_str("\nΔG′ unknown"),
     }
     match overlay {
+        // "ΔG′ unknown" already says what "no ΔG data" would.
+        Overlay::Verdicts if r.dg_range.is_none() && reaction_verdict(r) == MapVerdict::NoData => {}
         Overlay::Verdicts => {
             let _ = write!(s, "; {}", reaction_verdict(r).words());
         }
