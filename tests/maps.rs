@@ -137,25 +137,34 @@ fn resolve(from: &Path, target: &str) -> PathBuf {
     parts.iter().collect()
 }
 
-/// The legend of every verdict with its second channel: a sample line of
-/// the verdict's class, its glyph and its words in `legend`, and the rule
-/// giving that class its line pattern in `css`.
+/// The legend of every verdict with its second channel: a sample line in
+/// the verdict's class with its glyph and its words in `legend`, and the
+/// rule giving that class its colour, width and line pattern in `css`.
 fn assert_legend_complete(what: &str, legend: &str, css: &str) {
     for v in MapVerdict::ALL {
         let style = MapVerdictStyle::of(v);
+        let open = format!("<g class=\"{}\" transform=", style.class);
+        let at = legend
+            .find(&open)
+            .unwrap_or_else(|| panic!("{what}: no legend line for {v:?}"));
+        let item = &legend[at..at + legend[at..].find("</g>").unwrap()];
+        assert!(item.contains("<path class=\"e\""), "{what}: {item}");
+        assert!(item.contains("<path class=\"h\""), "{what}: {item}");
         assert!(
-            legend.contains(&format!("class=\"edge nmv-{}\"", v.slug())),
-            "{what}: no legend line for {v:?}"
+            item.contains(&format!(
+                "class=\"g\" x=\"42\" y=\"0\">{}</text>",
+                style.glyph
+            )),
+            "{what}: {item}"
         );
-        assert!(legend.contains(&format!(">\n{}\n</text>", style.glyph)));
-        assert!(css.contains(&format!(
-            "path.nmv-{}{{stroke:{};stroke-width:{};stroke-dasharray:{}}}",
-            v.slug(),
-            style.colour,
-            style.width,
-            style.dash
-        )));
-        assert!(legend.contains(v.words()), "{what}: no words for {v:?}");
+        assert!(item.contains(v.words()), "{what}: no words for {v:?}");
+        assert!(
+            css.contains(&format!(
+                ".nm .{} .e{{stroke:{};stroke-width:{};stroke-dasharray:{}}}",
+                style.class, style.colour, style.width, style.dash
+            )),
+            "{what}: no line style for {v:?}"
+        );
     }
 }
 
@@ -405,7 +414,7 @@ fn neighbourhood_maps_are_capped_and_say_what_they_leave_out() {
     assert!(count(&near, false) <= NEIGHBOURHOOD_METABOLITES);
     // The subject comes first and is highlighted.
     assert_eq!(near.nodes[0].id, "R05");
-    assert_eq!(near.svg.matches(" subject\"").count(), 1);
+    assert_eq!(near.svg.matches(" sj\"").count(), 1);
     // The hub's map: its first reactions only.
     let hub = pages::metabolite_neighbourhood(&ctx, "hub_c").unwrap();
     assert_eq!(count(&hub, true), NEIGHBOURHOOD_REACTIONS);
@@ -414,12 +423,22 @@ fn neighbourhood_maps_are_capped_and_say_what_they_leave_out() {
     let wide = pages::reaction_neighbourhood(&ctx, "WIDE").unwrap();
     assert_eq!(count(&wide, false), NEIGHBOURHOOD_METABOLITES);
     assert!(wide.svg.contains("+9 more not drawn"), "{}", wide.svg);
-    // Hover text once per reaction on a small map (on its box).
-    assert_eq!(
-        wide.svg.matches("<title>").count(),
-        1 + count(&wide, true) + count(&wide, false)
-    );
-    // A group map is a full map: no cap on metabolites, hover on arrows too.
+    // Hover text once per reaction, on its link (the map's own title
+    // first); these metabolites have no names, so their boxes add none. A
+    // small map shortens long equations (the page has them in full).
+    assert_eq!(wide.svg.matches("<title>").count(), 1 + count(&wide, true));
+    assert_eq!(wide.svg.matches("class=\"r ").count(), count(&wide, true));
+    let equation = &report
+        .reactions
+        .iter()
+        .find(|r| r.id == "WIDE")
+        .unwrap()
+        .equation;
+    assert!(equation.chars().count() > 90);
+    // As escaped in the hover text.
+    let equation = equation.replace('>', "&gt;");
+    assert!(!wide.svg.contains(&equation));
+    // A group map is a full map: no cap on metabolites, whole hover texts.
     let site = pages::group_maps(&ctx);
     let part = site
         .pages
@@ -428,6 +447,7 @@ fn neighbourhood_maps_are_capped_and_say_what_they_leave_out() {
         .unwrap();
     assert!(!part.svg.contains("more not drawn"));
     assert!(part.drawn.nodes.iter().any(|n| n.id == "w19_c"));
+    assert!(part.svg.contains(&equation));
     // The page links to where the limits are stated, once for the site.
     let out = tmp.path().join("site");
     gibbsite::site::render(&report, None, &out).unwrap();
@@ -446,28 +466,27 @@ fn standalone_svg_files_open_on_their_own() {
     let site = pages::group_maps(&ctx);
     let page = &site.pages[0];
     let file = page.drawn.standalone();
-    // Its own stylesheet, every arrow head, its legend, the same drawing.
+    // Its own stylesheet with every verdict's style, its legend, the same
+    // drawing.
     assert!(file.contains("<style>"));
-    for v in MapVerdict::ALL {
-        assert!(file.contains(&format!("id=\"nm-head-{}\"", v.slug())));
-    }
+    assert!(file.contains("xmlns=\"http://www.w3.org/2000/svg\""));
+    assert_legend_complete("standalone", &file, &file);
     assert!(file.contains("class=\"nm-key\""));
-    let body = |svg: &str| {
-        let start = svg.find("<g transform=").unwrap();
-        let end = svg
-            .find("<g class=\"nm-key\"")
-            .unwrap_or(svg.rfind("</svg>").unwrap());
-        svg[start..end].to_string()
-    };
-    assert_eq!(body(&file), body(&page.svg));
+    assert!(page.drawn.body().contains("<a href=\"../reactions/"));
+    assert!(file.contains(page.drawn.body()));
+    assert!(page.svg.contains(page.drawn.body()));
     // The inline copy has neither stylesheet nor legend; it is smaller.
     assert!(!page.svg.contains("<style>"));
     assert!(!page.svg.contains("nm-key"));
     assert!(page.svg.len() < file.len());
     // The file's viewBox includes the legend below the drawing.
     let height = |svg: &str| -> f64 {
-        let at = svg.find("height=\"").unwrap() + 8;
-        svg[at..at + svg[at..].find('"').unwrap()].parse().unwrap()
+        let at = svg.find("viewBox=\"").unwrap() + 9;
+        let view: Vec<f64> = svg[at..at + svg[at..].find('"').unwrap()]
+            .split(' ')
+            .map(|v| v.parse().unwrap())
+            .collect();
+        view[3]
     };
     assert!(height(&file) > height(&page.svg) + 50.0);
 }
@@ -506,4 +525,52 @@ fn every_conflicting_set_has_a_network_map_on_its_scenario_page() {
     // At dusk the flux overlay is used: arrows sized by |flux|.
     let dusk = std::fs::read_to_string(out.join("scenarios/dusk.html")).unwrap();
     assert!(dusk.contains("arrow width ∝ |flux|"));
+}
+
+#[test]
+fn hover_texts_give_id_equation_and_energy_range() {
+    let report = demo_report();
+    let ctx = MapContext::new(&report);
+    let escape = |s: &str| {
+        s.replace('&', "&amp;")
+            .replace('<', "&lt;")
+            .replace('>', "&gt;")
+    };
+    for r in &report.reactions {
+        let near = pages::reaction_neighbourhood(&ctx, &r.id).unwrap();
+        // The subject's link: its hover text comes first inside it.
+        let open = near.svg.find(" sj\"><title>").expect("subject drawn") + 12;
+        let title = &near.svg[open..open + near.svg[open..].find("</title>").unwrap()];
+        let lines: Vec<&str> = title.split('\n').collect();
+        assert!(lines[0].starts_with(&escape(&r.id)), "{title}");
+        assert_eq!(lines[1], escape(&r.equation), "{title}");
+        match &r.dg_range {
+            Some(_) => assert!(
+                lines[2].starts_with("ΔG′ ")
+                    && lines[2].contains(" to ")
+                    && lines[2].contains("kJ/mol"),
+                "{title}"
+            ),
+            None => assert!(lines[2].starts_with("ΔG′ unknown"), "{title}"),
+        }
+    }
+    // A metabolite box's hover text is its name (the id is its label).
+    let pyk = pages::reaction_neighbourhood(&ctx, "PYK").unwrap();
+    let name = &report
+        .metabolites
+        .iter()
+        .find(|m| m.id == "pyr_c")
+        .unwrap()
+        .name;
+    assert!(!name.is_empty());
+    assert!(
+        pyk.svg.contains(&format!(
+            "<a href=\"../metabolites/pyr_c.html\" class=\"m\"><title>{}</title>",
+            escape(name)
+        )),
+        "{}",
+        pyk.svg
+    );
+    // Links to pages of the same folder are short.
+    assert!(pyk.svg.contains("<a href=\"PYK.html\" class=\"r "));
 }

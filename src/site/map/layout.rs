@@ -22,7 +22,8 @@
 //! 5. x by pulling each node towards the mean x of its neighbours, then a
 //!    left-to-right pass that restores the minimum gap (so boxes of one
 //!    layer never overlap); layers are stacked with a fixed gap, so boxes
-//!    of different layers never overlap either.
+//!    of different layers never overlap either; every left edge is then
+//!    moved to a whole number (the gaps kept), for short SVG coordinates.
 //!
 //! Everything is index-ordered (no hash maps): the same graph always gives
 //! the same coordinates.
@@ -151,7 +152,8 @@ pub fn layered<E>(graph: &DiGraph<Size, E>) -> Layout {
         layer_y.push(y + h / 2.0);
         y += h + LAYER_GAP;
     }
-    let x = x_coordinates(&order, &widths, &up, &down);
+    let mut x = x_coordinates(&order, &widths, &up, &down);
+    snap_lefts(&order, &widths, &mut x);
     let min_left = (0..total)
         .map(|v| x[v] - widths[v] / 2.0)
         .fold(f64::INFINITY, f64::min);
@@ -315,62 +317,74 @@ fn initial_order(
 }
 
 /// Barycentre sweeps; keeps the order with the fewest crossings seen.
+/// Stops early when nothing can change any more: no crossings left, or a
+/// down-and-up pair of sweeps that left the order as it was (the sweeps
+/// depend on the order only, so later ones would repeat it).
 fn reduce_crossings(order: &mut [Vec<usize>], up: &[Vec<usize>], down: &[Vec<usize>]) {
     let total = up.len();
     let mut position = vec![0usize; total];
-    let set_positions = |order: &[Vec<usize>], position: &mut Vec<usize>| {
-        for layer in order {
-            for (i, &v) in layer.iter().enumerate() {
-                position[v] = i;
-            }
+    for layer in order.iter() {
+        for (i, &v) in layer.iter().enumerate() {
+            position[v] = i;
         }
-    };
-    set_positions(order, &mut position);
+    }
+    let mut pairs = Vec::new();
+    let mut best_crossings = crossings(order, down, &position, &mut pairs);
+    if best_crossings == 0 {
+        return;
+    }
     let mut best = order.to_vec();
-    let mut best_crossings = crossings(order, down, &position);
+    let mut keyed: Vec<(f64, usize)> = Vec::new();
+    let mut before = order.to_vec();
     for sweep in 0..SWEEPS {
         let downward = sweep % 2 == 0;
-        let layers: Vec<usize> = if downward {
-            (1..order.len()).collect()
-        } else {
-            (0..order.len().saturating_sub(1)).rev().collect()
-        };
-        for l in layers {
+        if downward {
+            before.clone_from_slice(order);
+        }
+        let count = order.len();
+        for step in 0..count.saturating_sub(1) {
+            let l = if downward { step + 1 } else { count - 2 - step };
             let neighbours = if downward { up } else { down };
-            let mut keyed: Vec<(f64, usize)> = order[l]
-                .iter()
-                .map(|&v| {
-                    let ns = &neighbours[v];
-                    let key = if ns.is_empty() {
-                        position[v] as f64
-                    } else {
-                        ns.iter().map(|&w| position[w] as f64).sum::<f64>() / ns.len() as f64
-                    };
-                    (key, v)
-                })
-                .collect();
+            keyed.clear();
+            keyed.extend(order[l].iter().map(|&v| {
+                let ns = &neighbours[v];
+                let key = if ns.is_empty() {
+                    position[v] as f64
+                } else {
+                    ns.iter().map(|&w| position[w] as f64).sum::<f64>() / ns.len() as f64
+                };
+                (key, v)
+            }));
             // Stable: equal keys keep their current order.
             keyed.sort_by(|a, b| a.0.total_cmp(&b.0));
-            order[l] = keyed.into_iter().map(|(_, v)| v).collect();
-            for (i, &v) in order[l].iter().enumerate() {
+            for (i, &(_, v)) in keyed.iter().enumerate() {
+                order[l][i] = v;
                 position[v] = i;
             }
         }
-        let c = crossings(order, down, &position);
+        let c = crossings(order, down, &position, &mut pairs);
         if c < best_crossings {
             best_crossings = c;
-            best = order.to_vec();
+            best.clone_from_slice(order);
+        }
+        if best_crossings == 0 || (!downward && before == order) {
+            break;
         }
     }
     order.clone_from_slice(&best);
 }
 
 /// Edge crossings between neighbouring layers (pairwise count, fine for the
-/// readable sizes we draw).
-fn crossings(order: &[Vec<usize>], down: &[Vec<usize>], position: &[usize]) -> usize {
+/// readable sizes we draw); `pairs` is scratch space.
+fn crossings(
+    order: &[Vec<usize>],
+    down: &[Vec<usize>],
+    position: &[usize],
+    pairs: &mut Vec<(usize, usize)>,
+) -> usize {
     let mut count = 0;
     for layer in order {
-        let mut pairs: Vec<(usize, usize)> = Vec::new();
+        pairs.clear();
         for &v in layer {
             for &w in &down[v] {
                 pairs.push((position[v], position[w]));
@@ -404,29 +418,41 @@ fn x_coordinates(
             left += widths[v] + NODE_GAP;
         }
     }
+    let mut desired: Vec<f64> = Vec::new();
     for round in 0..PULL_ROUNDS {
         let downward = round % 2 == 0;
-        let layers: Vec<usize> = if downward {
-            (0..order.len()).collect()
-        } else {
-            (0..order.len()).rev().collect()
-        };
-        for l in layers {
-            let desired: Vec<f64> = order[l]
-                .iter()
-                .map(|&v| {
-                    let ns: Vec<usize> = up[v].iter().chain(&down[v]).copied().collect();
-                    if ns.is_empty() {
-                        x[v]
-                    } else {
-                        ns.iter().map(|&w| x[w]).sum::<f64>() / ns.len() as f64
-                    }
-                })
-                .collect();
+        for step in 0..order.len() {
+            let l = if downward {
+                step
+            } else {
+                order.len() - 1 - step
+            };
+            desired.clear();
+            desired.extend(order[l].iter().map(|&v| {
+                let n = up[v].len() + down[v].len();
+                if n == 0 {
+                    x[v]
+                } else {
+                    up[v].iter().chain(&down[v]).map(|&w| x[w]).sum::<f64>() / n as f64
+                }
+            }));
             place_in_order(&order[l], &desired, widths, &mut x);
         }
     }
     x
+}
+
+/// Moves every box to a whole-number left edge (short coordinates in the
+/// SVG), keeping the order and at least [`NODE_GAP`] between neighbours.
+fn snap_lefts(order: &[Vec<usize>], widths: &[f64], x: &mut [f64]) {
+    for layer in order {
+        let mut min_left = f64::NEG_INFINITY;
+        for &v in layer {
+            let left = (x[v] - widths[v] / 2.0).round().max(min_left);
+            x[v] = left + widths[v] / 2.0;
+            min_left = (left + widths[v] + NODE_GAP).ceil();
+        }
+    }
 }
 
 /// Puts the nodes of one layer as near their desired x as the order and the

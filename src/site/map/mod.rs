@@ -137,6 +137,10 @@ pub enum Overlay<'a> {
 /// Lookups shared by every map of a report. Hash maps: drawing the maps
 /// of a genome-scale model looks ids up millions of times, and nothing
 /// iterates these in an order that reaches the output (common practice).
+/// The neighbourhood maps (thousands per site) work on positions instead
+/// of ids: reaction `i` is `report.reactions[i]`, metabolite `j` is
+/// `met_ids[j]` (the report's metabolites first, then ids named only by
+/// reactions).
 pub struct MapContext<'a> {
     pub report: &'a Report,
     pub side: HashSet<String>,
@@ -148,6 +152,21 @@ pub struct MapContext<'a> {
     pub reactions_of: HashMap<&'a str, Vec<&'a str>>,
     /// (errors, warnings) among the findings naming each reaction.
     pub counts: HashMap<&'a str, (usize, usize)>,
+    /// Position of each reaction in `report.reactions`.
+    index: HashMap<&'a str, usize>,
+    /// Rank of each reaction (by position) in id order.
+    rank: Vec<u32>,
+    /// Main metabolites of each reaction (by position): (metabolite, coefficient).
+    main_idx: Vec<Vec<(u32, f64)>>,
+    /// Reactions (positions, in id order) of each main metabolite.
+    reactions_idx: Vec<Vec<u32>>,
+    /// Metabolite ids by position.
+    met_ids: Vec<&'a str>,
+    /// Labels and hover texts on verdict maps, made the first time a map
+    /// needs them: a reaction of a genome-scale model is on a dozen
+    /// neighbourhood maps.
+    texts: Vec<std::sync::OnceLock<render::ReactionText>>,
+    met_texts: Vec<std::sync::OnceLock<render::MetaboliteText>>,
 }
 
 impl<'a> MapContext<'a> {
@@ -158,7 +177,14 @@ impl<'a> MapContext<'a> {
             .iter()
             .map(|r| (r.id.as_str(), r))
             .collect();
+        let mut met_ids: Vec<&str> = report.metabolites.iter().map(|m| m.id.as_str()).collect();
+        let mut met_index: HashMap<&str, u32> = met_ids
+            .iter()
+            .enumerate()
+            .map(|(j, m)| (*m, j as u32))
+            .collect();
         let mut main_of = HashMap::new();
+        let mut main_idx = Vec::with_capacity(report.reactions.len());
         let mut reactions_of: HashMap<&str, Vec<&str>> = HashMap::new();
         for r in &report.reactions {
             let main: Vec<(&str, f64)> = r
@@ -170,11 +196,44 @@ impl<'a> MapContext<'a> {
             for (m, _) in &main {
                 reactions_of.entry(m).or_default().push(&r.id);
             }
+            main_idx.push(
+                main.iter()
+                    .map(|&(m, c)| {
+                        let next = met_ids.len() as u32;
+                        let j = *met_index.entry(m).or_insert(next);
+                        if j == next {
+                            met_ids.push(m);
+                        }
+                        (j, c)
+                    })
+                    .collect(),
+            );
             main_of.insert(r.id.as_str(), main);
         }
         for list in reactions_of.values_mut() {
             list.sort_unstable();
             list.dedup();
+        }
+        let index: HashMap<&str, usize> = report
+            .reactions
+            .iter()
+            .enumerate()
+            .map(|(i, r)| (r.id.as_str(), i))
+            .collect();
+        let mut by_id: Vec<usize> = (0..report.reactions.len()).collect();
+        by_id.sort_unstable_by_key(|&i| report.reactions[i].id.as_str());
+        let mut rank = vec![0u32; by_id.len()];
+        for (k, &i) in by_id.iter().enumerate() {
+            rank[i] = k as u32;
+        }
+        let mut reactions_idx: Vec<Vec<u32>> = vec![Vec::new(); met_ids.len()];
+        for &i in &by_id {
+            for &(j, _) in &main_idx[i] {
+                let list = &mut reactions_idx[j as usize];
+                if list.last() != Some(&(i as u32)) {
+                    list.push(i as u32);
+                }
+            }
         }
         let mut counts: HashMap<&str, (usize, usize)> = HashMap::new();
         for f in &report.findings {
@@ -204,37 +263,88 @@ impl<'a> MapContext<'a> {
             main_of,
             reactions_of,
             counts,
+            index,
+            rank,
+            main_idx,
+            reactions_idx,
+            texts: std::iter::repeat_with(std::sync::OnceLock::new)
+                .take(report.reactions.len())
+                .collect(),
+            met_texts: std::iter::repeat_with(std::sync::OnceLock::new)
+                .take(met_ids.len())
+                .collect(),
+            met_ids,
         }
+    }
+
+    /// Position of a reaction in `report.reactions`.
+    pub(crate) fn reaction_index(&self, rid: &str) -> Option<usize> {
+        self.index.get(rid).copied()
+    }
+
+    /// Main metabolites of the reaction at position `i`.
+    pub(crate) fn main_at(&self, i: usize) -> &[(u32, f64)] {
+        &self.main_idx[i]
+    }
+
+    /// Id of the metabolite at position `j`, and its view when the report has one.
+    pub(crate) fn metabolite_at(&self, j: u32) -> (&'a str, Option<&'a MetaboliteView>) {
+        let j = j as usize;
+        (self.met_ids[j], self.report.metabolites.get(j))
+    }
+
+    /// Labels and hover text of the reaction at position `i` on verdict
+    /// maps (made once).
+    pub(crate) fn reaction_text(&self, i: usize) -> &render::ReactionText {
+        self.texts[i].get_or_init(|| render::ReactionText::for_verdicts(self, i))
+    }
+
+    /// Label and hover text of the metabolite at position `j` (made once).
+    pub(crate) fn metabolite_text(&self, j: u32) -> &render::MetaboliteText {
+        self.met_texts[j as usize].get_or_init(|| render::MetaboliteText::new(self, j))
     }
 
     /// Reactions within `steps` steps of `start` (a reaction step goes
     /// through a shared main metabolite), nearest first then by id, at most
     /// `limit`.
     pub fn near_reactions(&self, start: &[&'a str], limit: usize) -> Vec<&'a str> {
-        let mut found: Vec<&str> = Vec::new();
-        let mut seen: BTreeSet<&str> = BTreeSet::new();
-        let mut frontier: Vec<&str> = start.to_vec();
-        frontier.sort_unstable();
-        frontier.dedup();
+        let start: Vec<usize> = start
+            .iter()
+            .filter_map(|r| self.reaction_index(r))
+            .collect();
+        self.near_positions(&start, limit)
+            .into_iter()
+            .map(|i| self.report.reactions[i].id.as_str())
+            .collect()
+    }
+
+    /// [`Self::near_reactions`] on positions.
+    fn near_positions(&self, start: &[usize], limit: usize) -> Vec<usize> {
+        let mut found: Vec<usize> = Vec::with_capacity(limit);
+        let mut frontier: Vec<usize> = start.to_vec();
+        let mut next: Vec<usize> = Vec::new();
         while !frontier.is_empty() && found.len() < limit {
-            let mut next = BTreeSet::new();
-            for r in frontier {
+            frontier.sort_unstable_by_key(|&i| self.rank[i]);
+            frontier.dedup();
+            next.clear();
+            for &r in &frontier {
                 if found.len() >= limit {
                     break;
                 }
-                if !seen.insert(r) {
+                if found.contains(&r) {
                     continue;
                 }
                 found.push(r);
-                for (m, _) in self.main_of.get(r).into_iter().flatten() {
-                    for &other in self.reactions_of.get(m).into_iter().flatten() {
-                        if !seen.contains(other) {
-                            next.insert(other);
-                        }
-                    }
+                for &(m, _) in &self.main_idx[r] {
+                    next.extend(
+                        self.reactions_idx[m as usize]
+                            .iter()
+                            .map(|&o| o as usize)
+                            .filter(|o| !found.contains(o)),
+                    );
                 }
             }
-            frontier = next.into_iter().collect();
+            std::mem::swap(&mut frontier, &mut next);
         }
         found
     }
@@ -253,6 +363,9 @@ pub struct MapSpec<'a> {
     pub elsewhere: BTreeMap<&'a str, Vec<(String, String)>>,
     /// Prefix from the page holding the map to the site root ("../").
     pub root: &'a str,
+    /// Folder of the page holding the map ("reactions"): links to pages
+    /// of the same folder leave out the way there and back.
+    pub here: &'a str,
     /// A small map (neighbourhoods): at most this many metabolite boxes,
     /// shortened hover texts given once per reaction. `None`: a full map.
     pub max_metabolites: Option<usize>,
@@ -283,6 +396,7 @@ pub fn reaction_set_map(
         overlay: scenario.map_or(Overlay::Verdicts, Overlay::Scenario),
         elsewhere: BTreeMap::new(),
         root: "../",
+        here: "",
         max_metabolites: None,
     };
     Some(render::draw(ctx, &spec).svg)

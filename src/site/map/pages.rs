@@ -250,6 +250,7 @@ pub fn group_maps(ctx: &MapContext<'_>) -> MapSite {
                 overlay: Overlay::Verdicts,
                 elsewhere,
                 root: "../",
+                here: "maps",
                 max_metabolites: None,
             };
             // Drawn below, all parts in parallel.
@@ -372,6 +373,7 @@ pub fn reaction_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<render::
         overlay: Overlay::Verdicts,
         elsewhere: BTreeMap::new(),
         root: "../",
+        here: "reactions",
         max_metabolites: Some(NEIGHBOURHOOD_METABOLITES),
     };
     Some(render::draw(ctx, &spec))
@@ -391,6 +393,7 @@ pub fn metabolite_neighbourhood(ctx: &MapContext<'_>, id: &str) -> Option<render
         overlay: Overlay::Verdicts,
         elsewhere: BTreeMap::new(),
         root: "../",
+        here: "metabolites",
         max_metabolites: Some(NEIGHBOURHOOD_METABOLITES),
     };
     Some(render::draw(ctx, &spec))
