@@ -386,7 +386,11 @@ fn loop_through(
             session.fix_feasible(off, 0.0)?;
             solves += 1;
         }
-        let attempt = session.fix(on, 1.0).map(|s| s.values.clone());
+        // The part exists only in a direction the target can loop in
+        // (`capable`), so the fix is feasible: no state copy to return to.
+        // Should the solver still find it infeasible, the session is rebuilt
+        // and the other direction tried, as before.
+        let attempt = session.fix_feasible(on, 1.0).map(|s| s.values.clone());
         session.release(on)?;
         solves += 2;
         if let Some(off) = off {

@@ -386,10 +386,13 @@ impl JointProblem {
     /// Decides whether the steps of `subset` can all run with at least the
     /// required driving force, from both LPs; their optima must agree.
     pub fn decide(&self, subset: &[usize]) -> Result<Option<Decision>, Undecided> {
-        let Some(primal) = self.solve_mdf(subset)? else {
+        // The two LPs are independent: solved side by side (rayon), the
+        // primal's answer taken first, as if solved in turn.
+        let (primal, dual) = rayon::join(|| self.solve_mdf(subset), || self.solve_dual(subset));
+        let Some(primal) = primal? else {
             return Ok(None);
         };
-        let dual = self.solve_dual(subset)?;
+        let dual = dual?;
         let gap = (primal.value_kj - dual.value_kj).abs();
         if gap > DUALITY_GAP_KJ * (1.0 + primal.value_kj.abs()) {
             return Err(Undecided(format!(
