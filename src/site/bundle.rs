@@ -73,7 +73,11 @@ mod tests {
         let css = get(CSS);
         let style = css.find("--ink:").expect("style.css");
         let pages = css.find("nav.pager").expect("pages.css");
-        let map = css.find("path.nmv-").expect("the map stylesheet");
+        let (_, map_css) = super::super::map::pages::shared_assets()
+            .into_iter()
+            .find(|(path, _)| path.ends_with(".css"))
+            .unwrap();
+        let map = css.find(map_css.as_str()).expect("the map stylesheet");
         assert!(style < pages && pages < map);
         let js = get(JS);
         for marker in ["data-sortable", "data-zoom", "search-index.js"] {
