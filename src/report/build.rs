@@ -229,14 +229,25 @@ fn metabolite_views(model: &Model, analysis: &Analysis) -> Vec<MetaboliteView> {
 /// `2 a + b -> c` with the arrow the bounds imply.
 pub fn equation_text(model: &Model, j: usize) -> String {
     let r = &model.reactions[j];
+    let terms: Vec<(f64, &str)> = r
+        .stoichiometry
+        .iter()
+        .map(|&(i, c)| (c, model.metabolites[i].id.as_str()))
+        .collect();
+    equation_from_terms(&terms, r.allows_forward(), r.allows_backward())
+}
+
+/// `2 a + b -> c` from (coefficient, metabolite id) in their order, with
+/// the arrow of the allowed directions; `report.json`'s reader rebuilds
+/// the same text through it.
+pub(crate) fn equation_from_terms(terms: &[(f64, &str)], forward: bool, backward: bool) -> String {
     let side = |sign: f64| {
-        r.stoichiometry
+        terms
             .iter()
-            .filter(|(_, c)| c.signum() == sign)
-            .map(|&(i, c)| {
-                let id = &model.metabolites[i].id;
+            .filter(|(c, _)| c.signum() == sign)
+            .map(|&(c, id)| {
                 if c.abs() == 1.0 {
-                    id.clone()
+                    id.to_string()
                 } else {
                     format!("{} {id}", c.abs())
                 }
@@ -244,7 +255,7 @@ pub fn equation_text(model: &Model, j: usize) -> String {
             .collect::<Vec<_>>()
             .join(" + ")
     };
-    let arrow = match (r.allows_forward(), r.allows_backward()) {
+    let arrow = match (forward, backward) {
         (true, true) => "<->",
         (false, true) => "<-",
         _ => "->",

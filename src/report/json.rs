@@ -231,28 +231,11 @@ pub fn restore(report: &mut Report) {
 /// `2 a + b -> c` from the participants in their order, with the arrow the
 /// bounds allow: the text `report::build::equation_text` writes.
 fn equation_text(participants: &[super::ParticipantView], lower: f64, upper: f64) -> String {
-    let side = |sign: f64| {
-        participants
-            .iter()
-            .filter(|p| p.coefficient.signum() == sign)
-            .map(|p| {
-                if p.coefficient.abs() == 1.0 {
-                    p.metabolite.clone()
-                } else {
-                    format!("{} {}", p.coefficient.abs(), p.metabolite)
-                }
-            })
-            .collect::<Vec<_>>()
-            .join(" + ")
-    };
-    let arrow = match (upper > 0.0, lower < 0.0) {
-        (true, true) => "<->",
-        (false, true) => "<-",
-        _ => "->",
-    };
-    format!("{} {arrow} {}", side(-1.0), side(1.0))
-        .trim()
-        .to_string()
+    let terms: Vec<(f64, &str)> = participants
+        .iter()
+        .map(|p| (p.coefficient, p.metabolite.as_str()))
+        .collect();
+    super::build::equation_from_terms(&terms, upper > 0.0, lower < 0.0)
 }
 
 /// A metabolite's `consumed_by` / `produced_by` from the participants of
