@@ -26,6 +26,11 @@ fn copy_project(to: &Path, edit: impl Fn(&str, String) -> String) {
     for entry in fs::read_dir(demo_dir()).unwrap() {
         let entry = entry.unwrap();
         let name = entry.file_name().to_string_lossy().into_owned();
+        if entry.path().is_dir() && name != "notes" {
+            // The rendered demo (`site/`, after the README's first command)
+            // is output, not part of the project.
+            continue;
+        }
         if entry.path().is_dir() {
             for note in fs::read_dir(entry.path()).unwrap() {
                 let note = note.unwrap();
