@@ -446,9 +446,10 @@ fn recon3d_loops_cover_the_set_and_check_back() {
     assert_eq!(analysis.loop_capable.len(), 2409);
     assert_loops_sound(&analysis);
     visible(&format!(
-        "Recon3D: {} loops ({} without LP, {} LP solves)",
+        "Recon3D: {} loops ({} without LP, {} by neighbourhood LPs, {} LP solves)",
         analysis.loops.len(),
         analysis.stats.direct_loops,
+        analysis.stats.local_loops,
         analysis.stats.loop_lp_solves
     ));
 }

@@ -8,12 +8,16 @@
 //! read off the compressed structure (a column that balances by itself, or
 //! two proportional columns with compatible directions) skip the LP: that
 //! loop is elementary too, though not necessarily L1-minimal, and any
-//! elementary loop through the target serves the cover. Each loop is checked back:
+//! elementary loop through the target serves the cover. Before the LP of the
+//! whole network, the same LP is solved over the target's neighbourhood
+//! (`local`): much smaller, and a loop there is an elementary loop of the
+//! whole network too. Each loop is checked back:
 //! S·v = 0 within tolerance, signs allowed by the bounds, and the support's
 //! columns have a one-dimensional null space (elementary).
 
 use super::compress::{compress, Merged};
 use super::exact;
+use super::local;
 use super::network::Directions;
 use super::nullspace::Elimination;
 use super::tolerance::{
@@ -21,6 +25,7 @@ use super::tolerance::{
     PROPORTIONAL_MATCH,
 };
 use crate::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
+use rayon::prelude::*;
 use serde::Serialize;
 use std::collections::{BTreeMap, BTreeSet};
 
@@ -65,6 +70,8 @@ pub struct LoopSet {
     pub lp_solves: usize,
     /// Loops read off the structure without an LP.
     pub direct_loops: usize,
+    /// Loops found by the LP of a target's neighbourhood (see `local`).
+    pub local_loops: usize,
     /// Loops whose LP answer was poor, recomputed exactly on their support.
     pub exact_repairs: usize,
     /// LP answers that were no loop even after exact repair (why, per answer).
@@ -93,6 +100,7 @@ pub fn find_loops(
         truncated: false,
         lp_solves: 0,
         direct_loops: 0,
+        local_loops: 0,
         exact_repairs: 0,
         dropped: Vec::new(),
     };
@@ -148,29 +156,74 @@ pub fn find_loops(
     // Targets in the order of their first reaction, for reproducible lists.
     let mut order: Vec<usize> = (0..merged.len()).collect();
     order.sort_by_key(|&j| merged[j].members.iter().map(|(r, _)| *r).min());
-    let mut order = order.into_iter().peekable();
     let partners = proportional_partners(merged);
+    let near = local::Neighbourhoods::new(metabolite_count, merged);
+    let mut local_record = local::Record::default();
+    let mut local_found: BTreeMap<usize, Option<Vec<(usize, f64)>>> = BTreeMap::new();
+    // Merged columns of the loops listed last: searched along with each
+    // neighbourhood, as loops of one family share their far part.
+    let mut recent: std::collections::VecDeque<Vec<usize>> = Default::default();
     let mut covered = vec![false; columns.len()];
     let mut keys: BTreeSet<Vec<(usize, bool)>> = BTreeSet::new();
+    let mut next = 0;
     loop {
-        // Targets with a loop read off the structure (see `direct_loop`) are
-        // taken on their own, in order; the others go to the LP workers.
+        // Targets with a loop read off the structure (see `direct_loop`) or
+        // found in their neighbourhood (see `local`) are taken on their own,
+        // in order; the others go to the LP workers.
         let mut batch = Vec::with_capacity(LOOP_WORKERS);
         let mut direct = None;
         while batch.len() < LOOP_WORKERS {
-            let Some(&target) = order.peek() else { break };
-            if merged[target].members.iter().all(|(r, _)| covered[*r]) {
-                order.next();
+            let Some(&target) = order.get(next) else {
+                break;
+            };
+            if is_covered(&merged[target], &covered) {
+                next += 1;
                 continue;
             }
             if let Some(found) = direct_loop(merged, &partners, target) {
                 if batch.is_empty() {
-                    order.next();
+                    next += 1;
+                    result.direct_loops += 1;
                     direct = Some(found);
                 }
                 break;
             }
-            order.next();
+            if local_record.worth_trying() {
+                if !local_found.contains_key(&target) {
+                    // The neighbourhood searches of the next uncovered targets,
+                    // side by side: each answer depends on its target only, so
+                    // the list does not depend on the machine (answers for
+                    // targets covered meanwhile are dropped unused).
+                    let window: Vec<usize> = order[next..]
+                        .iter()
+                        .copied()
+                        .filter(|&t| {
+                            !is_covered(&merged[t], &covered)
+                                && !local_found.contains_key(&t)
+                                && direct_loop(merged, &partners, t).is_none()
+                        })
+                        .take(LOCAL_WINDOW)
+                        .collect();
+                    let shared: BTreeSet<usize> = recent.iter().flatten().copied().collect();
+                    let shared: Vec<usize> = shared.into_iter().collect();
+                    let answers = window
+                        .par_iter()
+                        .map(|&t| local::local_loop(metabolite_count, merged, &near, t, &shared))
+                        .collect::<Result<Vec<_>, LpError>>()?;
+                    local_found.extend(window.into_iter().zip(answers));
+                }
+                if let Some(found) = local_found.get(&target).cloned().flatten() {
+                    if batch.is_empty() {
+                        next += 1;
+                        local_record.note(true);
+                        result.local_loops += 1;
+                        direct = Some(found);
+                    }
+                    break;
+                }
+                local_record.note(false);
+            }
+            next += 1;
             batch.push(target);
         }
         if batch.is_empty() && direct.is_none() {
@@ -181,7 +234,6 @@ pub fn find_loops(
             break;
         }
         let outcomes: Vec<Result<TargetOutcome, LpError>> = if let Some(found) = direct {
-            result.direct_loops += 1;
             vec![Ok((Some(found), 0))]
         } else {
             std::thread::scope(|scope| {
@@ -221,6 +273,7 @@ pub fn find_loops(
                 result.truncated = true;
                 break;
             }
+            let support: Vec<usize> = lambdas.iter().map(|&(j, _)| j).collect();
             let mut flux: Vec<(usize, f64)> = lambdas
                 .iter()
                 .flat_map(|&(j, lambda)| {
@@ -263,6 +316,10 @@ pub fn find_loops(
                 continue;
             }
             keys.insert(key);
+            if recent.len() == RECENT_LOOPS {
+                recent.pop_front();
+            }
+            recent.push_back(support);
             let mut cycle = cycle;
             cycle.id = super::ids::member_set_id(
                 "loop",
@@ -287,6 +344,17 @@ const LOOP_WORKERS: usize = 2;
 /// Merged fluxes (column, λ) of a loop (none when the target has no loop)
 /// and LP solves.
 type TargetOutcome = (Option<Vec<(usize, f64)>>, usize);
+
+/// Targets whose neighbourhood searches run side by side at a time.
+const LOCAL_WINDOW: usize = 32;
+
+/// Loops listed last whose columns join every neighbourhood search.
+const RECENT_LOOPS: usize = 8;
+
+/// Every reaction of merged column `column` is in a listed loop already.
+fn is_covered(column: &Merged, covered: &[bool]) -> bool {
+    column.members.iter().all(|(r, _)| covered[*r])
+}
 
 /// Groups of merged columns with proportional stoichiometry: per column, the
 /// other columns c·S_j of its group with their factor c (in column order).

@@ -16,6 +16,7 @@ mod elementary;
 mod energy;
 mod exact;
 pub mod ids;
+mod local;
 mod network;
 mod nullspace;
 mod prune;
@@ -91,6 +92,8 @@ pub struct LoopStats {
     pub loop_lp_solves: usize,
     /// Loops read off the compressed structure without an LP.
     pub direct_loops: usize,
+    /// Loops found by the LP of the target's neighbourhood alone.
+    pub local_loops: usize,
     /// Loops whose LP answer failed verification and were recomputed
     /// exactly (rational arithmetic) on their support.
     pub exact_repairs: usize,
@@ -192,6 +195,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
         direction_lps: capability.direction_lps,
         loop_lp_solves: 0,
         direct_loops: 0,
+        local_loops: 0,
         exact_repairs: 0,
     };
     let mut analysis = LoopAnalysis {
@@ -229,6 +233,7 @@ pub fn analyse_loops(model: &Model, options: &LoopOptions) -> Result<LoopAnalysi
     })?;
     stats.loop_lp_solves = set.lp_solves;
     stats.direct_loops = set.direct_loops;
+    stats.local_loops = set.local_loops;
     stats.exact_repairs = set.exact_repairs;
     analysis.stats = stats;
     analysis.loops_truncated = set.truncated;
