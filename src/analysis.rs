@@ -79,6 +79,32 @@ pub struct MissingEnergy {
 
 /// Results of the loop analysis (see `loops`).
 #[derive(Debug, Clone)]
+/// The part of the loop analysis that needs the model only (no energies),
+/// so that it can run beside the thermodynamics.
+pub struct LoopSearch {
+    loops: Result<LoopAnalysis, LoopError>,
+    energy_cycles: Result<EnergyCycleAnalysis, LoopError>,
+}
+
+impl LoopSearch {
+    /// Internal loops and energy-generating cycles, side by side (each is
+    /// single-threaded for long stretches).
+    pub fn run(model: &Model, settings: &Settings) -> LoopSearch {
+        let options = CurrencyOptions {
+            overrides: settings.currencies.clone(),
+            proton_gradients: None,
+        };
+        let (loops, energy_cycles) = rayon::join(
+            || loops::analyse_loops(model, &loops::LoopOptions::default()),
+            || loops::energy_generating_cycles(model, &options),
+        );
+        LoopSearch {
+            loops,
+            energy_cycles,
+        }
+    }
+}
+
 pub struct LoopResults {
     pub loops: Result<LoopAnalysis, LoopError>,
     /// ΔrG'° around each listed loop.
@@ -176,13 +202,22 @@ impl<'a> Analysis<'a> {
     /// The loop analysis, when the project has it switched on.
     pub fn add_loops(&mut self) {
         if self.settings.loops {
-            self.loops = Some(self.run_loops());
+            let search = LoopSearch::run(self.model, self.settings);
+            self.add_loop_search(search);
         }
     }
 
-    /// Internal loops, their energies and energy-generating cycles.
-    fn run_loops(&self) -> LoopResults {
-        let loops = loops::analyse_loops(self.model, &loops::LoopOptions::default());
+    /// Loop energies from a [`LoopSearch`] of this analysis's model.
+    pub fn add_loop_search(&mut self, search: LoopSearch) {
+        self.loops = Some(self.loop_results(search));
+    }
+
+    /// Internal loops with their energies, and energy-generating cycles.
+    fn loop_results(&self, search: LoopSearch) -> LoopResults {
+        let LoopSearch {
+            loops,
+            energy_cycles,
+        } = search;
         let energies = match &loops {
             Ok(found) => {
                 let standard: Vec<Option<StandardDeltaG>> = self
@@ -221,11 +256,6 @@ impl<'a> Analysis<'a> {
             }
             Err(e) => Err(e.clone()),
         };
-        let options = CurrencyOptions {
-            overrides: self.settings.currencies.clone(),
-            proton_gradients: None,
-        };
-        let energy_cycles = loops::energy_generating_cycles(self.model, &options);
         LoopResults {
             loops,
             energies,

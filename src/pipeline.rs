@@ -10,7 +10,7 @@
 //! reads the report only (every number it shows is in the report). The CLI
 //! and the collection builder call these functions; so can tests.
 
-use crate::analysis::Analysis;
+use crate::analysis::{Analysis, LoopSearch};
 use crate::checks;
 use crate::error::Result;
 use crate::finding::Finding;
@@ -43,14 +43,26 @@ pub fn analyse(project: &Project) -> Analysis<'_> {
     analyse_with(project, &Progress::hidden())
 }
 
-/// [`analyse`], timed as the `thermodynamics` and `loops` stages.
+/// [`analyse`], timed as the `thermodynamics`, `loops` and `loop-energies`
+/// stages. The loop search needs the model only, so it runs beside the
+/// thermodynamics; the loops' energies need both and come last.
 pub fn analyse_with<'a>(project: &'a Project, progress: &Progress) -> Analysis<'a> {
-    let stage = progress.stage(progress::THERMODYNAMICS, None);
-    let mut analysis = Analysis::without_loops(&project.model, &project.settings);
-    stage.finish();
-    if project.settings.loops {
-        let _stage = progress.stage(progress::LOOPS, None);
-        analysis.add_loops();
+    let (model, settings) = (&project.model, &project.settings);
+    let (mut analysis, search) = rayon::join(
+        || {
+            let _stage = progress.stage(progress::THERMODYNAMICS, None);
+            Analysis::without_loops(model, settings)
+        },
+        || {
+            settings.loops.then(|| {
+                let _stage = progress.stage(progress::LOOPS, None);
+                LoopSearch::run(model, settings)
+            })
+        },
+    );
+    if let Some(search) = search {
+        let _stage = progress.stage(progress::LOOP_ENERGIES, None);
+        analysis.add_loop_search(search);
     }
     analysis
 }

@@ -8,9 +8,11 @@
 //! and the benchmarks.
 //!
 //! A [`Stage`] is `Sync`: parallel workers call [`Stage::inc`] on one shared
-//! stage.
+//! stage. Stages may run side by side (the loop search beside the
+//! thermodynamics): their bars stack, and the total is wall time from the
+//! first start to the last end, not the sum.
 
-use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
+use indicatif::{MultiProgress, ProgressBar, ProgressDrawTarget, ProgressStyle};
 use serde::Serialize;
 use std::io::IsTerminal;
 use std::sync::atomic::{AtomicU64, Ordering};
@@ -20,9 +22,11 @@ use std::time::{Duration, Instant};
 /// Stage names, in pipeline order.
 pub const IMPORT: &str = "import";
 pub const THERMODYNAMICS: &str = "thermodynamics";
-/// Loop-capable set and elementary loops (one stage: `loops` computes both
-/// in one call).
+/// Loop-capable set, elementary loops and energy-generating cycles (one
+/// stage, beside `thermodynamics`).
 pub const LOOPS: &str = "loops";
+/// ΔrG'° around each loop and the re-checks of suggested constraints.
+pub const LOOP_ENERGIES: &str = "loop-energies";
 pub const CHECKS: &str = "checks";
 pub const REPORT: &str = "report";
 pub const PAGES: &str = "pages";
@@ -31,6 +35,8 @@ pub const PAGES: &str = "pages";
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct StageTiming {
     pub name: &'static str,
+    /// Start, in seconds after the [`Progress`] was made.
+    pub started: f64,
     pub seconds: f64,
     /// Items done (pages written, …) when the stage counts them.
     pub count: Option<u64>,
@@ -50,9 +56,24 @@ impl Timings {
         Some(matching.map(|s| s.seconds).sum())
     }
 
-    /// Sum over all stages.
+    /// Wall time from the first stage's start to the last one's end (less
+    /// than the sum when stages ran side by side).
     pub fn total(&self) -> f64 {
-        self.stages.iter().map(|s| s.seconds).sum()
+        let start = self
+            .stages
+            .iter()
+            .map(|s| s.started)
+            .fold(f64::INFINITY, f64::min);
+        let end = self
+            .stages
+            .iter()
+            .map(|s| s.started + s.seconds)
+            .fold(f64::NEG_INFINITY, f64::max);
+        if start.is_finite() {
+            end - start
+        } else {
+            0.0
+        }
     }
 
     /// A table for the terminal: one line per stage and a total.
@@ -70,6 +91,9 @@ impl Timings {
 /// Hands out stages and collects their timings.
 pub struct Progress {
     draw: bool,
+    /// Every drawn bar, stacked (stages can run side by side).
+    bars: MultiProgress,
+    created: Instant,
     timings: Mutex<Timings>,
 }
 
@@ -78,6 +102,8 @@ impl Progress {
     pub fn new(quiet: bool) -> Progress {
         Progress {
             draw: !quiet && std::io::stderr().is_terminal(),
+            bars: MultiProgress::with_draw_target(ProgressDrawTarget::stderr()),
+            created: Instant::now(),
             timings: Mutex::new(Timings::default()),
         }
     }
@@ -93,20 +119,17 @@ impl Progress {
     pub fn stage(&self, name: &'static str, total: Option<u64>) -> Stage<'_> {
         let bar = if self.draw {
             let bar = match total {
-                Some(n) => ProgressBar::with_draw_target(Some(n), ProgressDrawTarget::stderr())
-                    .with_style(
-                        ProgressStyle::with_template(
-                            "{prefix:>16} [{bar:30}] {pos}/{len} {elapsed}",
-                        )
+                Some(n) => ProgressBar::new(n).with_style(
+                    ProgressStyle::with_template("{prefix:>16} [{bar:30}] {pos}/{len} {elapsed}")
                         .unwrap_or_else(|_| ProgressStyle::default_bar())
                         .progress_chars("=> "),
-                    ),
-                None => ProgressBar::with_draw_target(None, ProgressDrawTarget::stderr())
-                    .with_style(
-                        ProgressStyle::with_template("{prefix:>16} {spinner} {elapsed}")
-                            .unwrap_or_else(|_| ProgressStyle::default_spinner()),
-                    ),
+                ),
+                None => ProgressBar::new_spinner().with_style(
+                    ProgressStyle::with_template("{prefix:>16} {spinner} {elapsed}")
+                        .unwrap_or_else(|_| ProgressStyle::default_spinner()),
+                ),
             };
+            let bar = self.bars.add(bar);
             bar.set_prefix(name);
             bar.enable_steady_tick(Duration::from_millis(120));
             bar
@@ -124,12 +147,17 @@ impl Progress {
         }
     }
 
-    /// The timings of every finished stage.
+    /// The timings of every finished stage, in the order they started.
     pub fn timings(&self) -> Timings {
-        self.timings
+        let mut timings = self
+            .timings
             .lock()
             .unwrap_or_else(|e| e.into_inner())
-            .clone()
+            .clone();
+        timings
+            .stages
+            .sort_by(|a, b| a.started.total_cmp(&b.started));
+        timings
     }
 
     fn record(&self, timing: StageTiming) {
@@ -178,6 +206,10 @@ impl Stage<'_> {
         self.bar.finish_and_clear();
         self.progress.record(StageTiming {
             name: self.name,
+            started: self
+                .start
+                .duration_since(self.progress.created)
+                .as_secs_f64(),
             seconds: self.start.elapsed().as_secs_f64(),
             count: self.counted.then(|| self.done.load(Ordering::Relaxed)),
         });

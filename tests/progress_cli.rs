@@ -43,6 +43,7 @@ fn timings_list_every_stage_with_its_seconds() {
         "import",
         "thermodynamics",
         "loops",
+        "loop-energies",
         "checks",
         "report",
         "pages",
@@ -50,9 +51,13 @@ fn timings_list_every_stage_with_its_seconds() {
     for stage in stages {
         assert!(seconds(stage) >= 0.0);
     }
-    // The total is the sum of the stages (each printed to 1 ms).
+    // The total is wall time: the loop search runs beside the
+    // thermodynamics, so it is at most the sum of the stages and at least
+    // the longest one (each printed to 1 ms).
     let sum: f64 = stages.iter().map(|s| seconds(s)).sum();
-    assert!((seconds("total") - sum).abs() < 0.01, "{stderr}");
+    let longest = stages.iter().map(|s| seconds(s)).fold(0.0, f64::max);
+    let total = seconds("total");
+    assert!(total <= sum + 0.01 && total >= longest - 0.002, "{stderr}");
     // The pages stage counts the pages written: every .html file of the site.
     let pages_line = stderr.lines().find(|l| l.starts_with("pages")).unwrap();
     let counted: usize = pages_line
