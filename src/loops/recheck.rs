@@ -25,8 +25,9 @@
 //! [`Witnesses`] settles those; the LP is asked only about the rest, and
 //! not at all when nothing is left.
 
-use super::compress::compress;
+use super::compress::{compress, Merged};
 use super::elementary::ElementaryLoop;
+use super::local::{self, Neighbourhoods};
 use super::network::Directions;
 use super::tolerance::FLUX_NONZERO;
 use crate::lp::{LinearProgram, LpError, LpSession, Relation, Sense, Var};
@@ -99,6 +100,13 @@ pub struct Rechecker {
     allowed: Vec<Directions>,
     /// (column, +1 or −1) → the variable to fix at 0 to forbid that sign.
     forbid_var: BTreeMap<(usize, i8), Var>,
+    metabolite_count: usize,
+    merged: Vec<Merged>,
+    /// For the neighbourhood LP tried before each global one (`local`).
+    near: Neighbourhoods,
+    /// How the neighbourhood LPs fared: where most questions are answered
+    /// "no" (only the whole network can show that), they stop.
+    record: local::Record,
 }
 
 fn sign_key(sign: f64) -> i8 {
@@ -120,6 +128,7 @@ impl Rechecker {
     ) -> Result<Rechecker, LpError> {
         let compressed = compress(metabolite_count, columns, capable);
         let merged = &compressed.merged;
+        let near = Neighbourhoods::new(metabolite_count, merged);
         let mut column_of = vec![None; columns.len()];
         for (j, column) in merged.iter().enumerate() {
             for &(r, factor) in &column.members {
@@ -177,6 +186,10 @@ impl Rechecker {
             flux,
             allowed: merged.iter().map(|m| m.allowed).collect(),
             forbid_var,
+            metabolite_count,
+            near,
+            merged: compressed.merged,
+            record: local::Record::default(),
         })
     }
 
@@ -209,6 +222,35 @@ impl Rechecker {
                 // The other sign of an irreversible forbidden column is
                 // not allowed anyway (caught above).
                 _ => {}
+            }
+        }
+        // A flux in a target's neighbourhood that avoids the forbidden
+        // direction settles it (and every other target it carries) without
+        // the LP of the whole network.
+        for k in 0..wanted.len() {
+            let (None, Some(target)) = (settled[k], targets[k]) else {
+                continue;
+            };
+            if !self.record.worth_trying() {
+                break;
+            }
+            let near = local::flux_avoiding(
+                self.metabolite_count,
+                &self.merged,
+                &self.near,
+                target,
+                forbidden,
+            )?;
+            self.record.note(near.is_some());
+            if let Some(found) = near {
+                for (other, target) in targets.iter().enumerate() {
+                    if let (None, Some((i, s))) = (settled[other], *target) {
+                        if found.iter().any(|&(c, l)| c == i && s * l >= FLUX_NONZERO) {
+                            settled[other] = Some(true);
+                        }
+                    }
+                }
+                settled[k] = Some(true);
             }
         }
         if settled.iter().all(Option::is_some) {
