@@ -115,6 +115,9 @@ impl Neighbourhoods {
     }
 }
 
+/// Merged (column, λ) of a flux.
+type Flux = Vec<(usize, f64)>;
+
 /// The L1-minimal loop through `target` within its neighbourhoods, each
 /// joined by the `shared` columns (target at +1 first, then −1, per
 /// neighbourhood), as merged (column, λ), or none.
@@ -124,28 +127,19 @@ pub fn local_loop(
     near: &Neighbourhoods,
     target: usize,
     shared: &[usize],
-) -> Result<Option<Vec<(usize, f64)>>, LpError> {
-    let mut tried = 0;
-    for walk in STEPS {
-        let Some(columns) = near.around(merged, target, walk, shared) else {
-            break;
-        };
-        if columns.len() == tried {
-            continue; // the same set as the smaller neighbourhood
-        }
-        tried = columns.len();
+) -> Result<Option<Flux>, LpError> {
+    first_found(merged, near, target, shared, |columns| {
         for sign in [1.0, -1.0] {
             if !merged[target].allowed.allows(sign) {
                 continue;
             }
-            if let Some(found) =
-                solve_within(metabolite_count, merged, &columns, (target, sign), None)?
-            {
-                return Ok(Some(found));
+            let found = solve_within(metabolite_count, merged, columns, (target, sign), None)?;
+            if found.is_some() {
+                return Ok(found);
             }
         }
-    }
-    Ok(None)
+        Ok(None)
+    })
 }
 
 /// A flux through merged column `target` with sign `sign` (λ_target =
@@ -158,25 +152,33 @@ pub fn flux_avoiding(
     near: &Neighbourhoods,
     (target, sign): (usize, f64),
     forbidden: Option<(usize, f64)>,
-) -> Result<Option<Vec<(usize, f64)>>, LpError> {
+) -> Result<Option<Flux>, LpError> {
+    first_found(merged, near, target, &[], |columns| {
+        solve_within(metabolite_count, merged, columns, (target, sign), forbidden)
+    })
+}
+
+/// `solve` over each neighbourhood of `target` in turn (`STEPS`, each
+/// joined by `shared`; one the same size as the last is skipped), up to the
+/// first answer.
+fn first_found(
+    merged: &[Merged],
+    near: &Neighbourhoods,
+    target: usize,
+    shared: &[usize],
+    mut solve: impl FnMut(&[usize]) -> Result<Option<Flux>, LpError>,
+) -> Result<Option<Flux>, LpError> {
     let mut tried = 0;
     for walk in STEPS {
-        let Some(columns) = near.around(merged, target, walk, &[]) else {
+        let Some(columns) = near.around(merged, target, walk, shared) else {
             break;
         };
         if columns.len() == tried {
-            continue;
+            continue; // the same set as the smaller neighbourhood
         }
         tried = columns.len();
-        let found = solve_within(
-            metabolite_count,
-            merged,
-            &columns,
-            (target, sign),
-            forbidden,
-        )?;
-        if found.is_some() {
-            return Ok(found);
+        if let Some(found) = solve(&columns)? {
+            return Ok(Some(found));
         }
     }
     Ok(None)
@@ -190,7 +192,7 @@ fn solve_within(
     columns: &[usize],
     (target, sign): (usize, f64),
     forbidden: Option<(usize, f64)>,
-) -> Result<Option<Vec<(usize, f64)>>, LpError> {
+) -> Result<Option<Flux>, LpError> {
     let mut lp = LinearProgram::new(Sense::Minimise);
     let mut rows: Vec<Vec<(crate::lp::Var, f64)>> = vec![Vec::new(); metabolite_count];
     let mut parts = Vec::with_capacity(columns.len());
