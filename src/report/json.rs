@@ -282,12 +282,7 @@ fn restore_loop_lists(report: &mut Report) {
     if report.reactions.iter().any(|r| !r.loops.is_empty()) {
         return;
     }
-    let index: HashMap<&str, usize> = report
-        .reactions
-        .iter()
-        .enumerate()
-        .map(|(j, r)| (r.id.as_str(), j))
-        .collect();
+    let index = report.reaction_positions();
     let mut lists: Vec<Vec<String>> = vec![Vec::new(); report.reactions.len()];
     for l in &loops.loops {
         let mut seen = std::collections::HashSet::new();

@@ -599,6 +599,15 @@ pub struct NoteView {
 }
 
 impl Report {
+    /// Position of each reaction in `reactions`, by id.
+    pub fn reaction_positions(&self) -> std::collections::HashMap<&str, usize> {
+        self.reactions
+            .iter()
+            .enumerate()
+            .map(|(j, r)| (r.id.as_str(), j))
+            .collect()
+    }
+
     pub fn count(&self, severity: Severity) -> usize {
         self.findings
             .iter()

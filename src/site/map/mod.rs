@@ -214,12 +214,7 @@ impl<'a> MapContext<'a> {
             list.sort_unstable();
             list.dedup();
         }
-        let index: HashMap<&str, usize> = report
-            .reactions
-            .iter()
-            .enumerate()
-            .map(|(i, r)| (r.id.as_str(), i))
-            .collect();
+        let index = report.reaction_positions();
         let mut by_id: Vec<usize> = (0..report.reactions.len()).collect();
         by_id.sort_unstable_by_key(|&i| report.reactions[i].id.as_str());
         let mut rank = vec![0u32; by_id.len()];
